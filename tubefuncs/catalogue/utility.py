@@ -1,0 +1,63 @@
+"""Catalogue: unit conversion, help and version."""
+
+from __future__ import annotations
+
+from .. import __version__
+from ..units import convert
+from .spec import Function, Param
+
+
+def help_text(function_name):
+    """One-line help of a catalogue function: signature, then what it returns.
+
+    Parameters
+    ----------
+    function_name : str
+        Worksheet name, e.g. "TUBE_TRANSIT_ANGLE" (case-insensitive; the
+        "TUBE_" prefix may be left out).
+    """
+    from . import CATALOGUE
+
+    key = str(function_name).strip().upper()
+    fn = CATALOGUE.get(key) or CATALOGUE.get("TUBE_" + key)
+    if fn is None:
+        raise LookupError(f"no catalogue function named '{function_name}' "
+                         f"(try e.g. 'TUBE_TRANSIT_ANGLE')")
+    args = ", ".join(p.name if p.required else f"[{p.name}]" for p in fn.worksheet_params)
+    unit = f" [{fn.result_unit}]" if fn.result_unit else ""
+    return f"{fn.name}({args}){unit}: {fn.help}"
+
+
+def version():
+    """Version of tubefuncs, e.g. "tubefuncs 0.1.0"."""
+    return f"tubefuncs {__version__}"
+
+
+FUNCTIONS = [
+    Function(
+        name="TUBE_CONVERT", func=convert,
+        params=(Param("value", "The number to convert, in from_unit."),
+                Param("from_unit", "Unit of value, e.g. 'kW', 'dBm', 'GHz', 'uperv'.",
+                      kind="text"),
+                Param("to_unit", "Unit wanted, same dimension, e.g. 'W', 'dBW', 'MHz'.",
+                      kind="text")),
+        result_unit="",
+        help="Converts a value between units of the same dimension; dBm and dBW work for "
+             "power (plain tested conversions, not pint's logarithmic units).",
+        references=("BIPM, The International System of Units (SI Brochure), 9th ed., 2019.",),
+        category="Utilities",
+    ),
+    Function(
+        name="TUBE_HELP", func=help_text,
+        params=(Param("function_name", "Worksheet name of a tubefuncs function, e.g. "
+                      "'TUBE_TRANSIT_ANGLE'.", kind="text"),),
+        result_unit="", returns_text=True,
+        help="One-line help of a tubefuncs worksheet function: its arguments and what it "
+             "returns.", category="Utilities",
+    ),
+    Function(
+        name="TUBE_VERSION", func=version, params=(), result_unit="", returns_text=True,
+        help="Version of the tubefuncs library that computes this workbook.",
+        category="Utilities",
+    ),
+]

@@ -1,0 +1,56 @@
+"""Headless workbook engine: recalculate, check and snapshot workbooks without Excel.
+
+Standard Excel functions come from the `formulas` package (EUPL 1.1+); the
+catalogue's ``TUBE_...`` functions from :mod:`tubefuncs.worksheet`.  The
+engine reads workbooks with openpyxl (guarded by defusedxml), never runs
+macros, never modifies its input and writes outputs atomically.
+
+Pipeline (one module each): :mod:`.limits` (inspect the file) ->
+:mod:`.loader` (read cells) -> :mod:`.formula` (compile) -> :mod:`.graph`
+(order) -> :mod:`.evaluate` (run) -> :mod:`.writer` / :mod:`.snapshot` /
+:mod:`.compare`.
+"""
+
+from __future__ import annotations
+
+from .compare import DEFAULT_ATOL, DEFAULT_RTOL, Comparison, compare, format_table
+from .engine import Plan, Recalculation, recalculate
+from .limits import DEFAULT_LIMITS, Limits, inspect_file
+from .problems import WorkbookError
+from .snapshot import read_snapshot, snapshot_path, write_snapshot
+from .writer import write_recalculated
+
+__all__ = [
+    "Comparison", "DEFAULT_ATOL", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
+    "Recalculation", "WorkbookError", "check", "compare", "format_table", "inspect_file",
+    "read_snapshot", "recalculate", "snapshot_path", "write_recalculated", "write_snapshot",
+]
+
+
+def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
+          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None):
+    """Recalculate ``path`` and compare: ``(Recalculation, Comparison, source)``.
+
+    ``expected``: an expected-values file.  Without it, the values a
+    spreadsheet application cached in the workbook; when it has none, the
+    ``fallback`` expected-values file if it exists; else a :class:`WorkbookError`.
+    ``source`` says which of these was used.
+    """
+    import os
+
+    recalc = recalculate(path, limits=limits, progress=progress)
+    if expected is None and not recalc.book.has_cached_values and recalc.values:
+        if fallback is not None and os.path.exists(fallback):
+            expected = fallback
+        else:
+            raise WorkbookError(
+                f"{recalc.book.path}: no cached values to compare with (the file was not "
+                f"last saved by a spreadsheet application) and no expected-values file; use "
+                f"--expected FILE, e.g. from 'tubefuncs snapshot'")
+    if expected is not None:
+        wanted = read_snapshot(expected, recalc.book)
+        source = os.fspath(expected)
+    else:
+        wanted = recalc.cached_values()
+        source = "values cached in the workbook"
+    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol), source

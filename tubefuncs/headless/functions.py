@@ -1,0 +1,137 @@
+"""Which code answers a function name in a formula.
+
+Resolution order for a name as written in a formula:
+
+1. the catalogue (``TUBE_...``), after removing the prefixes saved files put
+   before user-defined functions (``_xludf.``, ``_xll.``, an add-in path...);
+2. the few reference functions the engine answers itself (``ROW``,
+   ``COLUMN``, ``ROWS``, ``COLUMNS``: they need the address, not the values);
+3. the Excel function library of the `formulas` package (EUPL 1.1+);
+4. anything else is ``#NAME?``, with a message that says whether the function
+   is unknown or known to Excel but not supported headless.
+"""
+
+from __future__ import annotations
+
+import functools
+
+import formulas
+import numpy as np
+
+from . import values as V
+from .catalogue_bridge import catalogue_names, strip_udf_prefix
+
+#: Excel functions the engine deliberately refuses (need a live spreadsheet
+#: application, or references computed at run time, which the dependency
+#: graph cannot see in advance).
+UNSUPPORTED = {
+    "INDIRECT": "builds references from text at run time",
+    "OFFSET": "builds references at run time",
+    "CELL": "needs the spreadsheet application's state",
+    "INFO": "needs the spreadsheet application's state",
+    "ISFORMULA": "needs the formula text of a cell",
+    "FORMULATEXT": "needs the formula text of a cell",
+    "ANCHORARRAY": "spill references (A1#) are not supported",
+    "GETPIVOTDATA": "pivot tables are not evaluated",
+    "RTD": "needs a live data server",
+    "WEBSERVICE": "needs the network",
+    "CUBEVALUE": "needs an OLAP connection",
+    "LAMBDA": "LAMBDA/LET are not supported headless",
+    "LET": "LAMBDA/LET are not supported headless",
+    "_TUBEFUNCS_DATA_TABLE": "what-if data tables are not evaluated",
+}
+
+#: Functions whose arguments are references, answered by the engine itself.
+REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS"})
+
+
+@functools.lru_cache(maxsize=1)
+def excel_library() -> dict:
+    """The `formulas` function library, as ``NAME -> callable(*values)``."""
+    out = {}
+    for name, entry in formulas.get_functions().items():
+        if isinstance(entry, dict):
+            func = entry.get("function")
+            extra = entry.get("extra_inputs") or {}
+            if not callable(func):
+                continue
+            if not extra:
+                out[name] = func
+                continue
+            # Functions that want formulas' own compile-time inputs: the "Run"
+            # flag (False when evaluating) is the only one we can supply.
+            if all(str(k) == "Run" for k in extra):
+                out[name] = functools.partial(func, *([False] * len(extra)))
+        elif callable(entry):
+            out[name] = entry
+    return out
+
+
+class Resolution:
+    """What a function name resolved to: ``kind`` and ``target``."""
+
+    __slots__ = ("kind", "target", "name", "message")
+
+    def __init__(self, kind: str, target, name: str, message: str = ""):
+        self.kind = kind          # "catalogue" | "reference" | "excel" | "unknown"
+        self.target = target
+        self.name = name
+        self.message = message
+
+
+@functools.lru_cache(maxsize=4096)
+def resolve(written: str) -> Resolution:
+    """Resolve a function name as written (``LOG10``, ``_xludf.TUBE_GAMMA``...)."""
+    upper = written.upper()
+    bare = strip_udf_prefix(upper)
+    if bare in catalogue_names():
+        return Resolution("catalogue", bare, bare)
+    if bare in REFERENCE_FUNCTIONS:
+        return Resolution("reference", bare, bare)
+    if bare in UNSUPPORTED or upper in UNSUPPORTED:
+        key = bare if bare in UNSUPPORTED else upper
+        return Resolution("unknown", None, key,
+                          f"{key} is an Excel function the headless engine does not "
+                          f"support ({UNSUPPORTED[key]})")
+    lib = excel_library()
+    for candidate in (upper, bare, "_XLFN." + bare):
+        if candidate in lib:
+            return Resolution("excel", lib[candidate], bare)
+    if "!" in upper:
+        return Resolution("unknown", None, written,
+                          f"{written}: unknown function from another workbook or add-in")
+    if bare.startswith("TUBE_"):
+        return Resolution("unknown", None, bare,
+                          f"{bare} is not a tubefuncs function (see TUBE_HELP or the docs)")
+    return Resolution("unknown", None, bare, f"unknown function {bare}")
+
+
+def reference_function(name: str, args: list, host) -> object:
+    """ROW/COLUMN/ROWS/COLUMNS: ``args`` hold areas (or values for ROWS/COLUMNS)."""
+    from .references import Area
+
+    if len(args) > 1:
+        return V.VALUE
+    if not args:
+        if name in ("ROW", "COLUMN") and host is not None:
+            return float(host[1] if name == "ROW" else host[2])
+        return V.VALUE
+    arg = args[0]
+    if isinstance(arg, Area):
+        if name == "ROW":
+            return _column_vector(range(arg.r1, arg.r2 + 1)) if arg.r1 != arg.r2 else float(arg.r1)
+        if name == "COLUMN":
+            return (np.array([[float(c) for c in range(arg.c1, arg.c2 + 1)]], dtype=object)
+                    if arg.c1 != arg.c2 else float(arg.c1))
+        rows, cols = arg.shape
+        return float(rows if name == "ROWS" else cols)
+    if V.is_error(arg):
+        return arg
+    if name in ("ROW", "COLUMN"):
+        return V.VALUE
+    shape = V.as_array(arg).shape
+    return float(shape[0] if name == "ROWS" else shape[1])
+
+
+def _column_vector(rows) -> np.ndarray:
+    return np.array([[float(r)] for r in rows], dtype=object)

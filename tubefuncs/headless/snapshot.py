@@ -1,0 +1,114 @@
+"""Expected-values files: plain text, one formula cell per line, diff-friendly.
+
+Format (UTF-8, tab-separated)::
+
+    # tubefuncs expected values v1
+    # workbook: station_budget.xlsx
+    Budget!B7	9600000.0
+    Budget!B9	"text result"
+    Budget!B11	TRUE
+    Budget!B12	#NUM!	TUBE_PILLBOX_FREQ: radius must be > 0 m (got 0)
+
+Cells come in workbook order: sheet by sheet, row by row, column by column.
+A number is written with Python's shortest round-trip form, a text in JSON
+quotes, a boolean as TRUE/FALSE, an error as its code; an optional third
+column holds the message of an error (for people: never compared).  Lines
+starting with ``#`` are comments.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+
+from openpyxl.utils.cell import coordinate_to_tuple
+
+from . import values as V
+from .problems import WorkbookError
+from .references import split_sheet
+
+HEADER = "# tubefuncs expected values v1"
+SUFFIX = ".expected.tsv"
+
+
+def snapshot_path(workbook) -> str:
+    """Expected-values file beside a workbook: ``BOOK.xlsx`` -> ``BOOK.xlsx.expected.tsv``."""
+    return os.fspath(workbook) + SUFFIX
+
+
+def format_value(value) -> str:
+    if V.is_error(value):
+        return str(value)
+    if isinstance(value, bool):
+        return "TRUE" if value else "FALSE"
+    if isinstance(value, float):
+        if not math.isfinite(value):
+            return "#NUM!"
+        return repr(value)
+    if value is V.EMPTY or value is None:
+        return '""'
+    return json.dumps(str(value), ensure_ascii=False)
+
+
+def parse_value(text: str):
+    text = text.strip()
+    if text.startswith('"'):
+        return json.loads(text)
+    if text in ("TRUE", "FALSE"):
+        return text == "TRUE"
+    if text.startswith("#"):
+        if text.upper() not in V.ERRORS:
+            raise ValueError(f"unknown error value {text}")
+        return V.error(text)
+    return float(text)
+
+
+def render(recalc) -> str:
+    lines = [HEADER, f"# workbook: {os.path.basename(recalc.book.path)}",
+             "# cell<TAB>value[<TAB>message of an error value]; regenerate with "
+             "'tubefuncs snapshot'"]
+    for key in sorted(recalc.values):
+        value = recalc.values[key]
+        line = f"{recalc.cell_name(key)}\t{format_value(value)}"
+        message = recalc.messages.get(key)
+        if V.is_error(value) and message:
+            line += "\t" + " ".join(message.split())
+        lines.append(line)
+    return "\n".join(lines) + "\n"
+
+
+def write_snapshot(recalc, path=None) -> str:
+    from .writer import atomic_write_bytes
+
+    path = os.fspath(path) if path is not None else snapshot_path(recalc.book.path)
+    atomic_write_bytes(path, render(recalc).encode("utf-8"))
+    return path
+
+
+def read_snapshot(path, book) -> dict:
+    """``{(sheet_index, row, col): value}`` from an expected-values file."""
+    path = os.fspath(path)
+    try:
+        with open(path, encoding="utf-8") as fh:
+            lines = fh.read().splitlines()
+    except FileNotFoundError:
+        raise WorkbookError(f"{path}: no such expected-values file") from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise WorkbookError(f"{path}: cannot read expected values ({exc})") from None
+    out = {}
+    for number, line in enumerate(lines, 1):
+        if not line.strip() or line.startswith("#"):
+            continue
+        parts = line.split("\t")
+        try:
+            sheet_name, coordinate = split_sheet(parts[0])
+            sheet = book.sheet(sheet_name or "")
+            if sheet is None:
+                raise ValueError(f"no sheet {sheet_name!r} in the workbook")
+            r, c = coordinate_to_tuple(coordinate)
+            out[(sheet.index, r, c)] = parse_value(parts[1])
+        except (ValueError, IndexError, TypeError) as exc:
+            raise WorkbookError(f"{path}, line {number}: not an expected-values line "
+                                f"({exc})") from None
+    return out

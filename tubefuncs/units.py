@@ -1,0 +1,319 @@
+"""Units at the boundary: worksheet text -> SI floats, SI results -> requested unit.
+
+One :class:`pint.UnitRegistry` for the package.  A unit text is parsed once
+and its outcome (an SI value, or the reason it cannot be read) is cached, so a
+recalculation never parses the same text twice.  Parsing is case-sensitive:
+``mm`` and ``Mm`` differ by 10^9.
+
+dBm and dBW are plain, tested functions here (pint's logarithmic units are
+still marked beta): a power argument accepts ``"43 dBm"``; a power result
+accepts ``unit="dBW"``.
+
+Only a number followed by a unit expression is accepted.  The text is checked
+against a narrow pattern before pint sees it, so that no text can make pint
+evaluate huge integer powers (``"9**9**9 m"`` would hang the evaluator).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+import numpy as np
+import pint
+
+ureg = pint.UnitRegistry()
+# Perveance: the trade's unit is the perv (A/V^1.5); "uperv" is micro-perv.
+ureg.define("perv = ampere / volt ** 1.5")
+
+#: Longest unit text accepted (a cell of unit text is short).
+MAX_TEXT = 64
+
+_NUMBER = r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d{1,3})?"
+_NUMBER_RE = re.compile(rf"^\s*({_NUMBER})\s*$")
+_QUANTITY_RE = re.compile(rf"^\s*({_NUMBER})\s*(.*?)\s*$")
+# Unit expressions: letters (incl. micro signs, ohm, degree), digits of at most
+# two figures (exponents such as m**2, m^-1), operators and parentheses.
+_UNIT_RE = re.compile(r"^[A-Za-z_µμΩ°%][A-Za-z_µμΩ°%0-9 /*^.\-()·]*$")
+_LONG_DIGITS = re.compile(r"\d{3,}|\*\*\s*[-+]?\d+\s*\*\*|\^\s*[-+]?\d+\s*\^")
+_DB_POWER_RE = re.compile(rf"^\s*({_NUMBER})\s*(dBm|dBW)\s*$")
+_DEGREES_C = re.compile(r"(?<![A-Za-z_])(degC|°C|celsius|degree_Celsius)(?![A-Za-z_])")
+_DEGREES_F = re.compile(r"(?<![A-Za-z_])(degF|°F|fahrenheit|degree_Fahrenheit)(?![A-Za-z_])")
+
+#: Names of dimensions for messages, by default SI unit of the argument.
+DIMENSION_NAMES = {
+    "V": ("voltage", "80 kV"), "A": ("current", "12 A"), "m": ("length", "12 mm"),
+    "Hz": ("frequency", "2.998 GHz"), "W": ("power", "2 MW"), "s": ("time", "5 us"),
+    "ohm": ("resistance", "45 ohm"), "S": ("conductance", "2 mS"),
+    "S/m": ("conductivity", "58 MS/m"), "T": ("magnetic flux density", "0.12 T"),
+    "rad": ("angle", "90 deg"), "K": ("temperature difference", "10 K"),
+    "m**2": ("area", "2 cm**2"), "A/V**1.5": ("perveance", "1.8 uperv"),
+    "1/s": ("rate", "100 Hz"), "m**3/s": ("volume flow", "120 L/min"),
+    "kg/s": ("mass flow", "2 kg/s"), "m/s": ("velocity", "150000 km/s"), "": ("plain number", "0.6"),
+}
+
+
+class UnitTextError(ValueError):
+    """A unit text that cannot be read; the message is for the user."""
+
+
+def dimension_name(unit: str) -> tuple[str, str]:
+    """(name, example) of the dimension of an SI unit, for messages."""
+    return DIMENSION_NAMES.get(unit, (f"quantity in {unit}", f"1 {unit}"))
+
+
+def _dimensionality(unit: str):
+    return ureg.parse_units(unit).dimensionality if unit else ureg.dimensionless.dimensionality
+
+
+_PARSED: dict[tuple[str, str, bool], float | str] = {}
+
+
+def to_si(text: str, unit: str, difference: bool = False) -> float:
+    """Value of a worksheet text in the SI unit ``unit``.
+
+    Parameters
+    ----------
+    text : str
+        A number (taken in ``unit``) or a number and a unit: ``"80 kV"``.
+    unit : str
+        The SI unit of the argument ('' for a plain number).
+    difference : bool
+        The argument is a temperature difference: ``degC`` means kelvin steps.
+
+    Raises
+    ------
+    UnitTextError
+        Unparsable text, unknown unit or wrong dimension; the message says why.
+    """
+    key = (text, unit, difference)
+    hit = _PARSED.get(key)
+    if hit is None:
+        try:
+            hit = _parse(text, unit, difference)
+        except UnitTextError as exc:
+            hit = str(exc)
+        if len(_PARSED) > 100_000:
+            _PARSED.clear()
+        _PARSED[key] = hit
+    if isinstance(hit, str):
+        raise UnitTextError(hit)
+    return hit
+
+
+def _parse(text: str, unit: str, difference: bool) -> float:
+    name, example = dimension_name(unit)
+    if len(text) > MAX_TEXT:
+        raise UnitTextError(f"text is too long for a {name} (at most {MAX_TEXT} characters)")
+    plain = _NUMBER_RE.match(text)
+    if plain:
+        return float(plain.group(1))
+    if unit == "W":
+        db = _DB_POWER_RE.match(text)
+        if db:
+            level = float(db.group(1))
+            return dbm_to_watts(level) if db.group(2) == "dBm" else dbw_to_watts(level)
+    match = _QUANTITY_RE.match(text)
+    if not match or not match.group(2):
+        raise UnitTextError(f"cannot read it as a {name}: write a number and a unit, "
+                            f"e.g. '{example}'")
+    number, unit_text = float(match.group(1)), match.group(2)
+    if not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(unit_text):
+        raise UnitTextError(f"cannot read the unit '{unit_text}' (write e.g. '{example}')")
+    if difference:
+        unit_text = _DEGREES_C.sub("delta_degC", unit_text)
+        unit_text = _DEGREES_F.sub("delta_degF", unit_text)
+    if unit == "Hz" and "rad" in unit_text:
+        raise UnitTextError("give a frequency in Hz, not an angular frequency in rad/s")
+    try:
+        parsed = ureg.parse_units(unit_text)
+    except Exception:  # pint raises several kinds; all mean "unknown unit"
+        raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive; "
+                            f"e.g. '{example}')") from None
+    if parsed.dimensionality != _dimensionality(unit):
+        raise UnitTextError(f"'{unit_text}' is not a unit of {name} (e.g. '{example}')")
+    try:
+        value = ureg.Quantity(number, parsed).to(unit or ureg.dimensionless).magnitude
+    except Exception:
+        raise UnitTextError(f"cannot convert '{unit_text}' to {unit or 'a plain number'}"
+                            ) from None
+    return float(value)
+
+
+# --- results ---------------------------------------------------------------
+
+_CONVERTERS: dict[tuple[str, str], object] = {}
+
+
+def result_converter(unit_text: str, result_unit: str):
+    """Function mapping an SI result array to ``unit_text``.
+
+    Raises UnitTextError when the unit is unknown or of another dimension.
+    """
+    key = (unit_text, result_unit)
+    hit = _CONVERTERS.get(key)
+    if hit is None:
+        try:
+            hit = _make_converter(unit_text.strip(), result_unit)
+        except UnitTextError as exc:
+            hit = str(exc)
+        _CONVERTERS[key] = hit
+    if isinstance(hit, str):
+        raise UnitTextError(hit)
+    return hit
+
+
+def _make_converter(unit_text: str, result_unit: str):
+    name, example = dimension_name(result_unit)
+    if unit_text == "" or unit_text == result_unit:
+        return None
+    if result_unit == "W" and unit_text in ("dBm", "dBW"):
+        return watts_to_dbm if unit_text == "dBm" else watts_to_dbw
+    if len(unit_text) > MAX_TEXT or not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(
+            unit_text):
+        raise UnitTextError(f"cannot read the unit '{unit_text}'")
+    try:
+        target = ureg.parse_units(unit_text)
+    except Exception:
+        raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None
+    if target.dimensionality != _dimensionality(result_unit):
+        raise UnitTextError(f"'{unit_text}' is not a unit of {name} (the result is in "
+                            f"{result_unit})")
+    if result_unit == "Hz" and "rad" in unit_text:
+        raise UnitTextError("a frequency result cannot be given in rad/s; use Hz")
+    factor = float(ureg.Quantity(1.0, result_unit).to(target).magnitude)
+    if not math.isfinite(factor) or factor == 0:
+        raise UnitTextError(f"cannot convert {result_unit} to '{unit_text}'")
+    return factor
+
+
+def apply_converter(converter, values):
+    """Apply what :func:`result_converter` returned to a float or array."""
+    if converter is None:
+        return values
+    if isinstance(converter, float):
+        return values * converter
+    return converter(values)
+
+
+# --- decibels: plain, tested functions ---------------------------------------
+
+def watts_to_dbm(power):
+    """Power level in dBm: 10 log10(P / 1 mW). [dBm]  NaN for P <= 0."""
+    p = np.asarray(power, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        out = 10.0 * np.log10(p / 1e-3)
+    return np.where(p > 0, out, np.nan)[()]
+
+
+def watts_to_dbw(power):
+    """Power level in dBW: 10 log10(P / 1 W). [dBW]  NaN for P <= 0."""
+    p = np.asarray(power, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        out = 10.0 * np.log10(p)
+    return np.where(p > 0, out, np.nan)[()]
+
+
+def dbm_to_watts(level):
+    """Power in W of a level in dBm: 1 mW * 10^(L/10). [W]"""
+    return (1e-3 * np.power(10.0, np.asarray(level, dtype=float) / 10.0))[()]
+
+
+def dbw_to_watts(level):
+    """Power in W of a level in dBW: 1 W * 10^(L/10). [W]"""
+    return np.power(10.0, np.asarray(level, dtype=float) / 10.0)[()]
+
+
+def power_ratio_to_db(ratio):
+    """Power ratio in dB: 10 log10(ratio). [dB]"""
+    r = np.asarray(ratio, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        out = 10.0 * np.log10(r)
+    return np.where(r > 0, out, np.nan)[()]
+
+
+def amplitude_ratio_to_db(ratio):
+    """Voltage or current ratio in dB: 20 log10(|ratio|). [dB]"""
+    r = np.abs(np.asarray(ratio))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        out = 20.0 * np.log10(r)
+    return np.where(r > 0, out, np.nan)[()]
+
+
+# --- TUBE_CONVERT ------------------------------------------------------------
+
+_DB_LEVELS = {"dBm": ("W", watts_to_dbm, dbm_to_watts), "dBW": ("W", watts_to_dbw, dbw_to_watts)}
+
+
+def convert(value, from_unit, to_unit):
+    """Convert ``value`` from one unit to another (dBm and dBW for power included).
+
+    Parameters
+    ----------
+    value : numeric
+        The number to convert, in ``from_unit``.
+    from_unit, to_unit : str
+        Unit texts of the same dimension ("kW", "dBm", "GHz", "uperv", ...).
+
+    Returns
+    -------
+    numeric
+        ``value`` expressed in ``to_unit``; NaN where a dB level cannot be formed
+        (power <= 0).
+
+    Raises
+    ------
+    ValueError
+        Unknown unit or units of different dimensions.
+    """
+    forward = _unit_to_si(from_unit)
+    backward = _unit_from_si(to_unit)
+    if forward[0] != backward[0]:
+        raise UnitTextError(f"cannot convert '{from_unit}' to '{to_unit}': different dimensions")
+    si = forward[1](np.asarray(value, dtype=float))
+    return np.asarray(backward[1](si), dtype=float)[()]
+
+
+def _unit_to_si(unit_text: str):
+    unit_text = unit_text.strip()
+    if unit_text in _DB_LEVELS:
+        base, _, to_watts = _DB_LEVELS[unit_text]
+        return _dimensionality(base), to_watts
+    q = _checked_units(unit_text)
+    if _is_offset(unit_text):
+        return q.dimensionality, lambda v: ureg.Quantity(v, q).to_base_units().magnitude
+    factor = ureg.Quantity(1.0, q).to_base_units().magnitude
+    return q.dimensionality, lambda v: v * factor
+
+
+def _unit_from_si(unit_text: str):
+    unit_text = unit_text.strip()
+    if unit_text in _DB_LEVELS:
+        base, from_watts, _ = _DB_LEVELS[unit_text]
+        return _dimensionality(base), from_watts
+    q = _checked_units(unit_text)
+    base = ureg.Quantity(1.0, q).to_base_units().units
+    if _is_offset(unit_text):
+        return q.dimensionality, lambda v: ureg.Quantity(v, base).to(q).magnitude
+    factor = ureg.Quantity(1.0, base).to(q).magnitude
+    return q.dimensionality, lambda v: v * factor
+
+
+def _is_offset(unit_text: str) -> bool:
+    try:
+        return not ureg.parse_units(unit_text).is_compatible_with(ureg.dimensionless) and \
+            not ureg.Quantity(1.0, unit_text)._is_multiplicative
+    except Exception:
+        return False
+
+
+def _checked_units(unit_text: str):
+    if unit_text == "":
+        return ureg.dimensionless
+    if len(unit_text) > MAX_TEXT or not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(
+            unit_text):
+        raise UnitTextError(f"cannot read the unit '{unit_text}'")
+    try:
+        return ureg.parse_units(unit_text)
+    except Exception:
+        raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None
