@@ -124,7 +124,7 @@ def tm010_integrals(a, length, sigma, u0=None):
     k = p01 / a
     w = k * sc.c
     r_s = math.sqrt(w * sc.mu_0 / (2 * sigma))
-    opts = dict(epsabs=0, epsrel=1e-13, limit=200)
+    opts = {"epsabs": 0, "epsrel": 1e-13, "limit": 200}
     ie, _ = quad(lambda r: special.j0(k * r)**2 * r, 0, a, **opts)
     ih, _ = quad(lambda r: special.j1(k * r)**2 * r, 0, a, **opts)
     vol_e = 2 * np.pi * length * ie

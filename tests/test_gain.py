@@ -90,8 +90,8 @@ def test_two_cavity_ballistic_limit_webster():
     m = coupling(omega / u0, omega, d, b, a)
     v1 = abs(drive_voltage(f, f, rq, q0, qe1, p_in))      # at resonance, real
     x = m * v1 * theta0 / (v0 * g * (g + 1))
-    i1 = 2 * i0 * special.j1(x)                            # Webster's fundamental current
-    v2 = rq / (1 / q0 + 1 / qe2) * m * i1                   # induced current M I1 into Z = (R/Q) Q_L
+    i1 = 2 * i0 * special.j1(x)                # Webster's fundamental current
+    v2 = rq / (1 / q0 + 1 / qe2) * m * i1      # induced current M I1 into Z = (R/Q) Q_L
     expected_db = 10 * np.log10(v2**2 / (2 * rq * qe2) / p_in)
     # V2 = -Z M i with i = j I1 e^{-j theta0}: phase -90 deg - theta0 relative to the drive
     expected_phase = np.degrees(np.angle(np.exp(-1j * (np.pi / 2 + theta0))))
@@ -336,6 +336,21 @@ def test_stagger_tuning_trades_gain_for_bandwidth():
     assert bw_stag > 2.0 * bw_sync
 
 
+def test_idler_tuned_above_the_signal_helps():
+    # Common practice (from memory): an intermediate cavity tuned above the signal looks
+    # inductive and reinforces the bunching of the cavities before it.  In the linear
+    # theory this is the direct 1 -> 3 term j|Y13| adding in phase with Z2 Y12 Y23 when
+    # Z2 has a positive (inductive) phase; tuned equally below, it subtracts.
+    def three(detune):
+        return table([[0.0, F0, 100, 3000, 300, 0.01],
+                      [0.10, F0 + detune, 100, 3000, NAN, 0.01],
+                      [0.20, F0, 100, 3000, 40, 0.01]])
+
+    above = small_signal_gain(F0, cavities=three(10e6), **BEAM)
+    below = small_signal_gain(F0, cavities=three(-10e6), **BEAM)
+    assert above > below + 1.0
+
+
 # --- idle cavities -----------------------------------------------------------
 
 def test_idle_cavity_empty_inf_or_huge_qext_agree():
@@ -500,3 +515,28 @@ def test_bandwidth_of_a_known_curve():
     assert_allclose([lo, hi], [f0 - w, f0 + w], atol=1.0)
     lo, hi = bandwidth(f, np.full(f.shape, 30.0))
     assert np.isnan(lo) and np.isnan(hi)
+
+
+def test_worksheet_call_with_units_and_empty_cells():
+    # Through the worksheet layer: text with units, None for empty Qext cells, a column
+    # of frequencies spilling a column of results; a bad table is an error naming the rule.
+    from tubefuncs import worksheet
+    from tubefuncs.errors import TubeInputError
+
+    rows = synchronous(3).tolist()
+    rows[1][4] = None
+    direct = small_signal_gain(F0, cavities=synchronous(3), **BEAM)
+    got = worksheet.call("TUBE_SMALL_SIGNAL_GAIN", "2.856 GHz", "100 kV", "30 A", "5 mm",
+                         "7 mm", rows)
+    assert_allclose(got, direct, rtol=1e-12)
+    column = worksheet.call("TUBE_SMALL_SIGNAL_GAIN", [[F0 - 1e6], [F0]], 100e3, 30, 5e-3,
+                            7e-3, rows)
+    assert column.shape == (2, 1)
+    assert_allclose(column[1, 0], direct, rtol=1e-12)
+    phase_rad = worksheet.call("TUBE_SMALL_SIGNAL_PHASE", F0, 100e3, 30, 5e-3, 7e-3, rows,
+                               "rad")
+    assert_allclose(phase_rad, np.radians(small_signal_phase(F0, cavities=synchronous(3),
+                                                             **BEAM)), rtol=1e-12)
+    rows[1], rows[2] = rows[2], rows[1]
+    with pytest.raises(TubeInputError, match="positions strictly increasing"):
+        worksheet.call("TUBE_SMALL_SIGNAL_GAIN", F0, 100e3, 30, 5e-3, 7e-3, rows)

@@ -49,7 +49,8 @@ DIMENSION_NAMES = {
     "rad": ("angle", "90 deg"), "K": ("temperature difference", "10 K"),
     "m**2": ("area", "2 cm**2"), "A/V**1.5": ("perveance", "1.8 uperv"),
     "1/s": ("rate", "100 Hz"), "m**3/s": ("volume flow", "120 L/min"),
-    "kg/s": ("mass flow", "2 kg/s"), "m/s": ("velocity", "150000 km/s"), "": ("plain number", "0.6"),
+    "kg/s": ("mass flow", "2 kg/s"), "m/s": ("velocity", "150000 km/s"),
+    "": ("plain number", "0.6"),
 }
 
 

@@ -18,8 +18,9 @@ range, a bad element becomes NaN with its error kept in
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
-from typing import Any, Sequence
+from typing import Any
 
 import numpy as np
 

@@ -12,8 +12,18 @@ import importlib
 import pkgutil
 
 from .spec import (  # noqa: F401  (re-exported)
-    CAUTION_COOLING, CAUTION_HV, CAUTION_RF, FINITE, NONNEGATIVE, POSITIVE,
-    REQUIRED, Check, Domain, Function, Param, between,
+    CAUTION_COOLING,
+    CAUTION_HV,
+    CAUTION_RF,
+    FINITE,
+    NONNEGATIVE,
+    POSITIVE,
+    REQUIRED,
+    Check,
+    Domain,
+    Function,
+    Param,
+    between,
 )
 
 #: Order of topics in the docs; modules not listed come after, alphabetically.

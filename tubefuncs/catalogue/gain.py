@@ -8,13 +8,14 @@ from ..physics import gain
 from .spec import POSITIVE, Check, Function, Param
 
 REF_RAMO = ("S. Ramo, Space charge and field waves in an electron beam, Phys. Rev. 56, "
-            "276-283, 1939 (from memory).")
+            "276, 1939 (from memory).")
 REF_WESSEL_BERG = ("T. Wessel-Berg, A general theory of klystrons with arbitrary, extended "
                    "interaction fields, Microwave Laboratory Report 376, Stanford University, "
                    "1957 (from memory).")
 REF_CARYOTAKIS = ("G. Caryotakis, High power klystrons: theory and practice at the Stanford "
                   "Linear Accelerator Center, SLAC-PUB-10620, 2004, Ch. 3.")
-REF_WEBSTER = "D. L. Webster, Cathode-ray bunching, J. Appl. Phys. 10, 501-508, 1939."
+REF_WEBSTER = ("D. L. Webster, Cathode-ray bunching, J. Appl. Phys. 10, 501, 1939 "
+               "(from memory).")
 REF_BRANCH_MIHRAN = ("G. M. Branch and T. G. Mihran, Plasma frequency reduction factors in "
                      "electron beams, IRE Trans. Electron Devices ED-2(2), 3-11, 1955 "
                      "(from memory).")

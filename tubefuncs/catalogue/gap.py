@@ -58,8 +58,7 @@ FUNCTIONS = [
         ),
         checks=(
             Check(("beam_radius", "tunnel_radius"), _radii_given_together,
-                  "give both beam_radius and tunnel_radius, or neither, and "
-                  "beam_radius must be <= tunnel_radius"),
+                  "beam_radius must be <= tunnel_radius (give both radii or neither)"),
         ),
         result_unit="",
         help="Beam-coupling coefficient M of a gap: gridded sin(x)/x, x = half the transit "

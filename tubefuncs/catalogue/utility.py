@@ -7,7 +7,7 @@ from ..units import convert
 from .spec import Function, Param
 
 
-def help_text(function_name):
+def help(function_name):  # the twin of TUBE_HELP; shadows the builtin here only
     """One-line help of a catalogue function: signature, then what it returns.
 
     Parameters
@@ -48,7 +48,7 @@ FUNCTIONS = [
         category="Utilities",
     ),
     Function(
-        name="TUBE_HELP", func=help_text,
+        name="TUBE_HELP", func=help,
         params=(Param("function_name", "Worksheet name of a tubefuncs function, e.g. "
                       "'TUBE_TRANSIT_ANGLE'.", kind="text"),),
         result_unit="", returns_text=True,

@@ -261,8 +261,10 @@ def pillbox_r_over_q(radius, length, voltage=None, convention="circuit"):
     p01/(eta0 a) give the circuit value eta0 L T^2 / (pi p01 a J1^2(p01)),
     about 0.49111 eta0 (L/a) T^2.  The accelerator value is twice that.
 
-    Closed cavity; the voltage is the on-axis value (off-axis electrons see
-    more, see `tubefuncs.physics.gap.gap_coupling`).
+    Closed cavity; the voltage is the on-axis value.  In the closed pillbox
+    E_z falls off axis as J0(p01 r/a); in a real cavity with beam holes the
+    gap field rises toward the tunnel wall instead (see
+    `tubefuncs.physics.gap.gap_coupling`).
 
     References
     ----------

@@ -41,7 +41,7 @@ Definitions
 References
 ----------
 [1] S. Ramo, "Space charge and field waves in an electron beam", Phys. Rev.
-    56, 276-283, 1939 (space-charge waves) [from memory].
+    56, 276, 1939 (space-charge waves) [from memory].
 [2] T. Wessel-Berg, "A general theory of klystrons with arbitrary, extended
     interaction fields", Microwave Laboratory Report 376, Stanford
     University, 1957 (gap coupling to the fast and slow space-charge waves,
@@ -50,8 +50,8 @@ References
     Linear Accelerator Center", SLAC-PUB-10620, 2004, Ch. 3 (small-signal
     multicavity theory; space-charge beam-loading conductance
     (beta_e/8 beta_q)(M_-^2 - M_+^2)).
-[4] D. L. Webster, "Cathode-ray bunching", J. Appl. Phys. 10, 501-508, 1939
-    (ballistic bunching: the zero-space-charge limit).
+[4] D. L. Webster, "Cathode-ray bunching", J. Appl. Phys. 10, 501, 1939
+    (ballistic bunching: the zero-space-charge limit) [from memory].
 [5] D. M. Pozar, *Microwave Engineering*, 4th ed., Wiley, 2012, Ch. 6
     (parallel resonant circuit, external Q, coupling of a resonator to a
     matched line) [from memory for the chapter].
@@ -353,10 +353,10 @@ def _column(x, ndim):
 def _beam_conductance(modulated_g0, beta_e, m_fast, m_slow, beta_q):
     """Beam-loading conductance from the fast/slow-wave couplings. [S]
 
-    G_B = k G0 beta_e (M_f^2 - M_s^2) / (4 beta_q), M_f, M_s at beta_e -/+ beta_q:
+    G_B = kappa G0 beta_e (M_f^2 - M_s^2) / (4 beta_q), M_f, M_s at beta_e -/+ beta_q:
     the space-charge form [3] (beta_e/(8 beta_q)) (M_-^2 - M_+^2) G0 times the
     relativistic 2/(gamma(gamma+1)); as beta_q -> 0 it is the kinematic
-    -(beta_e/2) k G0 dM^2/d(beta_e).
+    -(beta_e/2) kappa G0 dM^2/d(beta_e).
     """
     return modulated_g0 * beta_e * (m_fast**2 - m_slow**2) / (4.0 * beta_q)
 
@@ -368,7 +368,7 @@ def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow):
     ----------
     frequency, u0, modulation, g0, beta_q : ndarray, broadcast shape S
         Signal frequency [Hz], DC velocity [m/s], velocity-modulation factor
-        k = 1/(gamma(gamma+1)) (1/2 non-relativistically) [1], DC beam
+        kappa = 1/(gamma(gamma+1)) (1/2 non-relativistically) [6], DC beam
         conductance G0 = I0/V0 [S] and plasma wave number beta_q > 0 [rad/m].
     table : ndarray, shape (n, 6)
         Validated cavity table.
@@ -403,9 +403,9 @@ def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow):
     # Transadmittance gap k -> gap n, a distance L = zeta_n - zeta_k downstream:
     # the gap launches a fast and a slow space-charge wave (beta_e -/+ beta_q),
     # each coupled by M at its own wave number [2]:
-    #   Y_kn = k G0 (beta_e / (2 beta_q)) [M_f,k M_f,n e^{-j(beta_e - beta_q) L}
+    #   Y_kn = kappa G0 (beta_e / (2 beta_q)) [M_f,k M_f,n e^{-j(beta_e - beta_q) L}
     #                                     - M_s,k M_s,n e^{-j(beta_e + beta_q) L}]
-    # Equal couplings M give j k G0 (omega/omega_q) M_k M_n sin(beta_q L) e^{-j beta_e L} [3].
+    # Equal couplings M give j kappa G0 (omega/omega_q) M_k M_n sin(beta_q L) e^{-j beta_e L} [3].
     # With wave phasors w_n = M_n e^{-j beta zeta_n}, M_k e^{-j beta L} M_n = w_n conj(w_k),
     # so the sum over every upstream gap k is a running sum per wave.
     w_fast = m_fast * np.exp(-1j * (beta_e - beta_q) * zeta)
@@ -498,28 +498,35 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
       beta_q = 2 pi f_q/u0.
     - Gap k modulates the velocity by M V_k/(V0 gamma (gamma+1)), which is
       M V_k/(2 V0) non-relativistically [6]; this is the factor
-      k = 1/(gamma(gamma+1)) below.
+      kappa = 1/(gamma(gamma+1)) below.
+    - Sign convention: phasors e^{j omega t}; V_k is the gap voltage that
+      accelerates electrons, the current is e times the electron flux.  Then
+      Y_kn carries +j (ballistically the bunch current lags the modulating
+      voltage by theta0 + 90 deg [4]) and V_n = -Z_n sum_k Y_kn V_k (the
+      cavity voltage decelerates the bunch that drives it).  A consequence: an
+      intermediate cavity tuned above the signal (inductive) adds in phase
+      with the direct modulation from the cavities before it.
     - Each gap launches a fast and a slow space-charge wave (wave numbers
       beta_e -/+ beta_q) and couples to each with the gridless-gap RMS
       coefficient M taken at that wave number (`wave_coupling`) [2].  The
       current induced in gap n by gap k, a distance L
       downstream, is Y_kn V_k with
 
-          Y_kn = k G0 (beta_e/(2 beta_q)) [M_f,k M_f,n e^{-j(beta_e - beta_q)L}
+          Y_kn = kappa G0 (beta_e/(2 beta_q)) [M_f,k M_f,n e^{-j(beta_e - beta_q)L}
                                           - M_s,k M_s,n e^{-j(beta_e + beta_q)L}],
 
       G0 = I0/V0.  With equal couplings M this is the familiar
-      j k G0 (omega/omega_q) M_k M_n sin(omega_q L/u0) e^{-j beta_e L} [3],
-      and as f_q -> 0 it tends to the ballistic j k G0 theta0 M_k M_n e^{-j theta0}
+      j kappa G0 (omega/omega_q) M_k M_n sin(omega_q L/u0) e^{-j beta_e L} [3],
+      and as f_q -> 0 it tends to the ballistic j kappa G0 theta0 M_k M_n e^{-j theta0}
       of Webster's small-X result [4] plus the gaps' finite-extent term.
       The induced current of gap n sums over every upstream gap.
     - Cavity n is a parallel resonant circuit [5]:
       Z_n = (R/Q)/(1/Q0 + 1/Qext + (R/Q) G_B + j(f/f0 - f0/f)), and
       V_n = -Z_n sum_{k<n} Y_kn V_k.
-    - Beam loading: the conductance G_B = k G0 beta_e (M_f^2 - M_s^2)/(4 beta_q),
+    - Beam loading: the conductance G_B = kappa G0 beta_e (M_f^2 - M_s^2)/(4 beta_q),
       the space-charge form of [3] with the relativistic factor, consistent
       with the transadmittance above (it reduces to the kinematic
-      gridded-gap result -(theta/2) k G0 dM^2/dtheta as f_q -> 0 with grids).
+      gridded-gap result -(theta/2) kappa G0 dM^2/dtheta as f_q -> 0 with grids).
       The beam-loading *susceptance* is not modelled: it only shifts a
       cavity's resonance slightly, so the table's resonant frequency is
       read as the beam-loaded ("hot") one.

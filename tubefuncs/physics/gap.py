@@ -188,8 +188,9 @@ def gap_coupling(frequency, gap_length, voltage, beam_radius=None, tunnel_radius
 
         M^2 = M_grid^2 [I0^2(gamma_r b) - I1^2(gamma_r b)] / I0^2(gamma_r a),
 
-    from (2/b^2) int_0^b I0^2(k r) r dr = I0^2(k b) - I1^2(k b) ([3],
-    Sec. 9.6 and Lommel's integral).  The RMS value, not the plain mean, is
+    from (2/b^2) int_0^b I0^2(k r) r dr = I0^2(k b) - I1^2(k b), a Lommel-type
+    integral (differentiate (x^2/2)(I0^2 - I1^2) with I0' = I1 and
+    I1' = I0 - I1/x, [3], Sec. 9.6, to get x I0^2).  The RMS value, not the plain mean, is
     the one a gap-to-gap calculation needs: an electron at radius r is
     velocity-modulated in proportion to M(r) at one gap and induces current
     in proportion to M(r) at the next, so gain, the transadmittance and the
@@ -217,8 +218,8 @@ def gap_coupling(frequency, gap_length, voltage, beam_radius=None, tunnel_radius
     if beam_radius is None and tunnel_radius is None:
         return m_grid
     if beam_radius is None or tunnel_radius is None:
-        raise ValueError("gap_coupling: give both beam_radius and tunnel_radius "
-                         "(gridless gap) or neither (gridded gap)")
+        raise ValueError("give both beam_radius and tunnel_radius (gridless gap) or "
+                         "neither (gridded gap)")
     b = np.asarray(beam_radius, dtype=float)
     a = np.asarray(tunnel_radius, dtype=float)
     # gamma_r = beta_e / gamma = omega / (u0 gamma) = omega / (c gamma beta)

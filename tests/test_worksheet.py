@@ -1,0 +1,95 @@
+"""Worksheet-call layer: Excel-shaped inputs, broadcasting, errors.
+
+The physics values here are the relativistic velocity at 80 kV worked from
+CODATA constants (scipy.constants) in the test itself.
+"""
+
+import math
+
+import numpy as np
+import pytest
+from scipy import constants as sc
+
+from tubefuncs.errors import CellError, TubeInputError
+from tubefuncs.worksheet import call, evaluate
+
+
+def u0(volts):
+    # beta = sqrt(1 - 1/gamma^2), gamma = 1 + eV/(m c^2) (Jackson, Sec. 11.5)
+    g = 1 + sc.e * volts / (sc.m_e * sc.c**2)
+    return sc.c * math.sqrt(1 - 1 / g**2)
+
+
+def test_scalar_number_text_and_unit():
+    assert call("TUBE_VELOCITY", 80e3) == pytest.approx(u0(80e3), rel=1e-12)
+    assert call("TUBE_VELOCITY", "80 kV") == pytest.approx(u0(80e3), rel=1e-12)
+    assert call("tube_velocity", 80_000, "km/s") == pytest.approx(u0(80e3) / 1e3, rel=1e-12)
+    assert isinstance(call("TUBE_VELOCITY", 80e3), float)
+
+
+def test_ranges_broadcast_and_bad_elements_are_nan():
+    out = evaluate("TUBE_VELOCITY", [[[1e3], ["10 kV"], [-5.0], [None], ["3 kv"]]])
+    assert out.value.shape == (5, 1)
+    assert out.value[0, 0] == pytest.approx(u0(1e3), rel=1e-12)
+    assert out.value[1, 0] == pytest.approx(u0(1e4), rel=1e-12)
+    assert np.isnan(out.value[2:, 0]).all()
+    assert set(out.errors) == {(2, 0), (3, 0), (4, 0)}
+    assert out.errors[(2, 0)].error_value == "#NUM!"
+    assert "voltage must be >= 0 V (got -5 V)" in out.errors[(2, 0)].message
+    assert out.errors[(3, 0)].error_value == "#VALUE!"
+    assert "unknown unit 'kv'" in out.errors[(4, 0)].message
+
+
+def test_numpy_and_1d_inputs():
+    out = call("TUBE_VELOCITY", np.array([1e3, 1e4]))
+    assert out.shape == (1, 2)  # 1-D is a row, as numpy broadcasting reads it
+    out = call("TUBE_VELOCITY", np.array([[1e3], [1e4]]), "km/s")
+    assert out.shape == (2, 1)
+    assert out[1, 0] == pytest.approx(u0(1e4) / 1e3)
+
+
+@pytest.mark.parametrize("args, code, fragment", [
+    ((-1,), "#NUM!", "TUBE_VELOCITY: voltage must be >= 0 V (got -1 V)"),
+    ((None,), "#VALUE!", "voltage is required (got an empty cell)"),
+    (("",), "#VALUE!", "voltage is required"),
+    ((True,), "#VALUE!", "got TRUE"),
+    (("3 A",), "#VALUE!", "not a unit of voltage"),
+    ((float("nan"),), "#NUM!", "got nan"),
+    ((1e3, "kHz"), "#VALUE!", "unit 'kHz'"),
+    ((1e3, "m/s", 3), "#VALUE!", "takes at most 2 arguments"),
+    ((CellError("#DIV/0!"),), "#DIV/0!", "TUBE_VELOCITY"),
+    (([[1, 2], [3]],), "#VALUE!", "ragged"),
+])
+def test_scalar_errors_name_function_argument_and_value(args, code, fragment):
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_VELOCITY", *args)
+    assert info.value.error_value == code
+    assert fragment in info.value.message
+    assert len(info.value.cell_text()) <= 255
+    assert info.value.cell_text().startswith(code)
+
+
+def test_unknown_function_is_name_error():
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_NOT_A_FUNCTION", 1)
+    assert info.value.error_value == "#NAME?"
+
+
+def test_error_value_inside_a_range_propagates_per_element():
+    out = evaluate("TUBE_VELOCITY", [[[1e3, CellError("#N/A")]]])
+    assert out.errors[(0, 1)].error_value == "#N/A"
+    assert out.value[0, 0] == pytest.approx(u0(1e3))
+
+
+def test_mismatched_ranges():
+    with pytest.raises(TubeInputError, match="does not match"):
+        call("TUBE_BEAM_POWER", [[1, 2, 3]], [[1, 2]])
+
+
+def test_text_results_and_convert():
+    assert call("TUBE_VERSION").startswith("tubefuncs ")
+    assert "TUBE_VELOCITY(voltage, [unit])" in call("TUBE_HELP", "tube_velocity")
+    assert call("TUBE_CONVERT", 30, "dBm", "W") == pytest.approx(1.0)
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_HELP", "TUBE_NOPE")
+    assert info.value.error_value == "#VALUE!"
