@@ -246,12 +246,10 @@ def test_brillouin_radial_force_balance():
         assert_allclose(net, -g * sc.m_e * w_l**2 * b, rtol=1e-9)
 
 
-def test_brillouin_notes_consistency_larmor_equals_plasma():
-    # NR check [physics notes item 7]: at 10 kV, 1 A, 1 mm, eta B/2 = omega_p/sqrt(2) =
-    # 7.301020e9 rad/s with the NR formula.  Here with the relativistic B, the relativistic
-    # balance reads omega_L^2 = omega_p,trans^2 / 2 with omega_L = eta B/(2 gamma) and the
-    # transverse plasma frequency omega_p,trans^2 = eta rho / (eps0 gamma^3) (derived:
-    # e E_r / gamma^2 = gamma m omega_L^2 r, so omega_L^2 = eta rho/(2 eps0 gamma^3)).
+def test_brillouin_larmor_equals_plasma_over_root_two():
+    # The Brillouin condition omega_L = omega_p/sqrt(2) (NR textbook form), relativistically:
+    # omega_L = eta B/(2 gamma) and omega_L^2 = eta rho/(2 eps0 gamma^3) (derived from
+    # e E_r / gamma^2 = gamma m omega_L^2 r with E_r = rho r/(2 eps0)).
     i0, v0, b = 1.0, 1e4, 1e-3
     g = 1.0 + v0 / V_REST
     u0 = sc.c * math.sqrt(1.0 - 1.0 / g**2)

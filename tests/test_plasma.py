@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import inspect
 import math
-from functools import lru_cache
+from functools import cache
 
 import numpy as np
 import pytest
@@ -61,7 +61,7 @@ def r_brentq_unscaled(x, ba):
     return x / math.hypot(x, u)
 
 
-@lru_cache(maxsize=None)
+@cache
 def r_mpmath(x, ba):
     """30-digit solution of the unscaled relation (mpmath has no exponent overflow)."""
     mp = pytest.importorskip("mpmath")
@@ -197,8 +197,8 @@ def test_reduction_free_space_limit():
     # At b/a = 1e-8, y >= 1e5 and the neglected terms are below exp(-1e5).
     for x in (1e-3, 0.05, 0.3, 1.0, 4.0, 30.0):
         rhs = x * special.kv(1, x) / special.kv(0, x)
-        u = brentq(lambda s: s * special.jv(1, s) - rhs * special.jv(0, s), 1e-300, J01,
-                   xtol=1e-15, rtol=1e-14)
+        u = brentq(lambda s, rhs=rhs: s * special.jv(1, s) - rhs * special.jv(0, s), 1e-300,
+                   J01, xtol=1e-15, rtol=1e-14)
         assert_allclose(r_lib(x, 1e-8), x / math.hypot(x, u), rtol=1e-11)
 
 
@@ -323,8 +323,8 @@ def test_reduction_nr_worked_example():
 
 # --- relativistic worked example (all reduced-plasma functions) --------------------------------
 
-EXAMPLE = dict(frequency=2.856e9, current=30.0, voltage=1e5, beam_radius=5e-3,
-               tunnel_radius=7e-3)
+EXAMPLE = {"frequency": 2.856e9, "current": 30.0, "voltage": 1e5, "beam_radius": 5e-3,
+           "tunnel_radius": 7e-3}
 
 
 def test_relativistic_worked_example():
@@ -415,6 +415,28 @@ def test_reduction_broadcasting_and_types():
     assert_allclose(r[1, 2], plasma.reduction_factor(3e9, 1e4, 1e-3, 4e-3), rtol=1e-15)
 
 
+def test_reduction_large_mixed_array():
+    # 40000 elements (several internal blocks), both Bessel branches (y below and above 2)
+    # and invalid elements interleaved: a sample of valid ones against the unscaled solver.
+    rng = np.random.default_rng(7)
+    shape = (200, 200)
+    x = 10 ** rng.uniform(-3, 1.3, shape)
+    ba = rng.uniform(0.05, 1.0, shape)
+    b, v0 = 2e-3, 3e5
+    f = x * sc.c * gamma_betagamma(v0)[1] / (2.0 * math.pi * b)
+    a = b / ba
+    a[::7, ::3] = 0.5 * b                       # beam wider than the tunnel -> NaN
+    r = plasma.reduction_factor(f, v0, b, a)
+    assert r.shape == shape
+    bad = np.zeros(shape, dtype=bool)
+    bad[::7, ::3] = True
+    assert np.all(np.isnan(r[bad])) and not np.any(np.isnan(r[~bad]))
+    rows, cols = np.nonzero(~bad & (x / ba <= 600.0))
+    pick = rng.choice(rows.size, 150, replace=False)
+    for i, j in zip(rows[pick], cols[pick]):
+        assert_allclose(r[i, j], r_brentq_unscaled(x[i, j], ba[i, j]), rtol=1e-9)
+
+
 def test_reduction_out_of_domain_gives_nan_elementwise():
     f = np.array([3e9, 0.0, -1e9, np.nan, np.inf, 3e9, 3e9, 3e9, 3e9, 3e9])
     v = np.array([1e4, 1e4, 1e4, 1e4, 1e4, 0.0, -1e4, 1e4, 1e4, 1e4])
@@ -444,6 +466,58 @@ def test_reduced_functions_domain():
                                np.array([7e-3, 2e-2]))
     assert_allclose(out[0], 0.20085, atol=5e-6) and np.isnan(out[1])
     assert isinstance(plasma.plasma_wavelength(**e), np.floating)
+
+
+# --- numerical internals ---------------------------------------------------------------------
+# Not physics: these pin the two code paths of the solver that the public tests may not reach.
+
+def test_series_branch_matches_scipy_bessel():
+    # The ascending series used for arguments <= 2 against scipy.special's i0, i1, k0
+    # (Cephes Chebyshev expansions): agreement to a few ulp.
+    z = np.concatenate([np.logspace(-300, math.log10(2.0), 4000), [2.0]])
+    t = 0.25 * z * z
+    i0 = plasma._series(plasma._I0_SERIES, t)
+    i1 = 0.5 * z * plasma._series(plasma._I1_SERIES, t)
+    k0 = plasma._series(plasma._K0_SERIES, t) - (np.log(0.5 * z) + np.euler_gamma) * i0
+    assert_allclose(i0, special.i0(z), rtol=4e-15)
+    assert_allclose(i1, special.i1(z), rtol=4e-15)
+    assert_allclose(k0, special.k0(z), rtol=4e-15)
+
+
+@pytest.mark.parametrize("ba", [0.3, 0.7, 0.999])
+def test_branch_switch_at_y_equal_2_is_seamless(ba):
+    # y = x a/b = 2 separates the series branch from the scaled-Bessel branch: R just below,
+    # at and above it agrees with the 30-digit solution.
+    for y in (2.0 * (1 - 1e-12), 2.0, 2.0 * (1 + 1e-12), 2.0 * 1.01):
+        x = y * ba
+        assert_allclose(r_lib(x, ba), r_mpmath(x, ba), rtol=1e-13)
+
+
+def test_eigenvalue_fast_path_over_all_right_hand_sides():
+    # The root u of u J1(u)/J0(u) = r depends on r = N/D alone: scan r over 24 decades plus
+    # the ends (r = 0+ and r = inf) and compare the fast path (two Halley steps) with brentq,
+    # and check that no element needed the bracketed fallback.
+    r = np.logspace(-12, 12, 400)
+    n = np.append(r / (1.0 + r), 1.0)     # last element: d = 0, r = inf (filled tunnel)
+    d = np.append(1.0 / (1.0 + r), 0.0)
+    u = plasma._solve_eigenvalue(n.copy(), d.copy())
+    want = [brentq(lambda s, nn=nn, dd=dd: s * special.j1(s) * dd - nn * special.j0(s),
+                   1e-300, J01, xtol=1e-300, rtol=1e-15) for nn, dd in zip(n[:-1], d[:-1])]
+    want = np.append(want, J01)          # d = 0: the root is the zero of J0
+    assert_allclose(u, want, rtol=1e-13)
+    guess = plasma._initial_guess(n, d)
+    assert np.max(np.abs(guess / want - 1.0)) < 4e-3      # the start the fast path relies on
+    step, _ = plasma._halley_step(plasma._initial_guess(n, d), n, d)
+    step2, _ = plasma._halley_step(guess - step, n, d)
+    assert np.all(np.abs(step2) <= plasma._TOL_STEP * u)   # fast path accepted everywhere
+
+
+def test_eigenvalue_bracketed_fallback():
+    # The safeguarded iteration used when the fast path does not converge gives the same
+    # root from the same start, for any right-hand side.
+    r = np.logspace(-12, 12, 200)
+    n, d = r / (1.0 + r), 1.0 / (1.0 + r)
+    assert_allclose(plasma._solve_bracketed(n, d), plasma._solve_eigenvalue(n, d), rtol=1e-14)
 
 
 # --- catalogue -------------------------------------------------------------------------------

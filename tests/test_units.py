@@ -41,6 +41,13 @@ def test_power_text_in_dbm_and_dbw():
         units.to_si("30 dBm", "V")
 
 
+def test_gauss_is_read_as_1e_4_tesla():
+    # 1 G = 1e-4 T (SI Brochure, 9th ed., Table 9, non-SI units)
+    assert units.to_si("1200 G", "T") == pytest.approx(0.12)
+    assert units.to_si("1.2 kG", "T") == pytest.approx(0.12)
+    assert units.apply_converter(units.result_converter("G", "T"), 0.12) == pytest.approx(1200)
+
+
 def test_temperature_difference_takes_degc_as_kelvin_steps():
     # a rise of 10 degC is a rise of 10 K (ISO 80000-5: Celsius interval = kelvin)
     assert units.to_si("10 degC", "K", difference=True) == pytest.approx(10.0)

@@ -54,6 +54,12 @@ DIMENSION_NAMES = {
 }
 
 
+#: Units of the trade that pint keeps in another system of units: the gauss
+#: (CGS-Gaussian in pint) is read as 1e-4 T, as solenoid data sheets mean it
+#: (1 G = 1e-4 T, SI Brochure 9th ed., Table 9).
+TRADE_UNITS = {"T": {"G": 1e-4, "gauss": 1e-4, "kG": 0.1, "kgauss": 0.1, "mG": 1e-7}}
+
+
 class UnitTextError(ValueError):
     """A unit text that cannot be read; the message is for the user."""
 
@@ -119,6 +125,9 @@ def _parse(text: str, unit: str, difference: bool) -> float:
         raise UnitTextError(f"cannot read it as a {name}: write a number and a unit, "
                             f"e.g. '{example}'")
     number, unit_text = float(match.group(1)), match.group(2)
+    trade = TRADE_UNITS.get(unit, {}).get(unit_text)
+    if trade is not None:
+        return number * trade
     if not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(unit_text):
         raise UnitTextError(f"cannot read the unit '{unit_text}' (write e.g. '{example}')")
     if difference:
@@ -170,6 +179,9 @@ def _make_converter(unit_text: str, result_unit: str):
         return None
     if result_unit == "W" and unit_text in ("dBm", "dBW"):
         return watts_to_dbm if unit_text == "dBm" else watts_to_dbw
+    trade = TRADE_UNITS.get(result_unit, {}).get(unit_text)
+    if trade is not None:
+        return 1.0 / trade
     if len(unit_text) > MAX_TEXT or not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(
             unit_text):
         raise UnitTextError(f"cannot read the unit '{unit_text}'")

@@ -252,8 +252,7 @@ class _Call:
             if any(op is None for op in operands):
                 continue
             if not bool(check.test(*operands)):
-                got = ", ".join(f"{a}={show_value(op)}" for a, op in zip(check.args, operands))
-                return check.message + f" (got {got})", check.error_value
+                return _check_text(check, operands), check.error_value
         return None
 
     def call_physics(self, values):
@@ -303,10 +302,8 @@ class _Call:
             with np.errstate(all="ignore"):
                 ok = np.broadcast_to(np.asarray(check.test(*operands), dtype=bool), shape)
             for idx in zip(*np.nonzero(~ok & np.equal(errors, None))):
-                got = ", ".join(f"{a}={show_value(_element(op, idx))}"
-                                for a, op in zip(check.args, operands))
-                errors[idx] = self.error(None, f"{check.message} (got {got})",
-                                         check.error_value)
+                errors[idx] = self.error(None, _check_text(
+                    check, [_element(op, idx) for op in operands]), check.error_value)
         result = self.call_physics(self.values)
         with np.errstate(all="ignore"):
             out = np.array(apply_converter(converter, np.asarray(result, dtype=float)),
@@ -327,6 +324,15 @@ class _Call:
             if p.kind == "number" and v is not None:
                 parts.append(f"{p.name}={show_value(float(v))}")
         return ", ".join(parts)
+
+
+def _check_text(check, operands) -> str:
+    """Message of a failed check: its own text (fixed or built from the operands)."""
+    if callable(check.message):
+        return check.message(*operands)
+    got = ", ".join(f"{a}={show_value(op)}" for a, op in zip(check.args, operands)
+                    if not isinstance(op, np.ndarray) or op.size == 1)
+    return f"{check.message} (got {got})" if got else check.message
 
 
 def _element(value, idx):

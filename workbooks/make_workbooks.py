@@ -23,12 +23,34 @@ from tubefuncs.headless.demo_books import BUILDERS  # noqa: E402
 from tubefuncs.headless.writer import atomic_write_bytes  # noqa: E402
 
 
+FIXED_TIME = (2026, 1, 1, 0, 0, 0)
+
+
+def reproducible(data: bytes) -> bytes:
+    """The same workbook bytes on every run: fixed zip timestamps and document dates."""
+    import io
+    import re
+    import zipfile
+
+    out = io.BytesIO()
+    with zipfile.ZipFile(io.BytesIO(data)) as zin, \
+            zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            body = zin.read(info.filename)
+            if info.filename == "docProps/core.xml":
+                body = re.sub(rb"(<dcterms:(?:created|modified)[^>]*>)[^<]*",
+                              rb"\g<1>2026-01-01T00:00:00Z", body)
+            zout.writestr(zipfile.ZipInfo(info.filename, FIXED_TIME), body,
+                          compress_type=zipfile.ZIP_DEFLATED)
+    return out.getvalue()
+
+
 def save(wb, path) -> None:
     import io
 
     buf = io.BytesIO()
     wb.save(buf)
-    atomic_write_bytes(path, buf.getvalue())
+    atomic_write_bytes(path, reproducible(buf.getvalue()))
 
 
 def main(argv=None) -> int:

@@ -7,7 +7,8 @@ from .spec import CAUTION_HV, NONNEGATIVE, POSITIVE, Function, Param
 
 REF_CODATA = "CODATA recommended values of the fundamental constants, via scipy.constants."
 REF_JACKSON = "J. D. Jackson, Classical Electrodynamics, 3rd ed., Wiley, 1999, Sec. 11.5."
-REF_CHILD = "C. D. Child, Discharge from hot CaO, Phys. Rev. (Series I) 32, 492, 1911 (from memory)."
+REF_CHILD = ("C. D. Child, Discharge from hot CaO, Phys. Rev. (Series I) 32, 492, 1911 "
+             "(from memory).")
 REF_LANGMUIR = ("I. Langmuir, The effect of space charge and residual gases on thermionic "
                 "currents in high vacuum, Phys. Rev. 2, 450, 1913 (from memory).")
 REF_JORY = ("H. R. Jory and A. W. Trivelpiece, Exact relativistic solution for the "
@@ -70,6 +71,7 @@ FUNCTIONS = [
         result_unit="W",
         help="DC beam power P = V I drawn from the beam supply; with no RF drive all of it "
              "reaches the collector.",
+        references=("P = V I, the power delivered by the beam supply (common practice).",),
         category="Beam", caution=CAUTION_HV, result_units=("W", "kW", "MW"),
         notes="Size the collector and its cooling for the full beam power: an undriven tube "
               "dumps all of it there (common practice).",

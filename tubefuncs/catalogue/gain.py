@@ -46,26 +46,25 @@ def _no_problem(*kinds):
     return test
 
 
+def _problem_text(*kinds):
+    """Check message: the row-specific text of the first problems of these kinds."""
+    def message(cavities):
+        texts = [text for kind, text in gain.table_problems(cavities) if kind in kinds]
+        return "; ".join(texts[:2]) if texts else f"cavities: problem of kind {kinds[0]}"
+    return message
+
+
 def _beam_in_tunnel(beam_radius, tunnel_radius):
     return np.asarray(beam_radius) <= np.asarray(tunnel_radius)
 
 
 CHECKS = (
-    Check(("cavities",), _no_problem("layout"),
-          "cavities must be a range of 6 columns: position (m), resonant frequency (Hz), "
-          "R/Q (ohm, circuit), Q0, Qext (empty = idle), gap length (m)", "#VALUE!"),
-    Check(("cavities",), _no_problem("rows"),
-          "cavities needs at least 2 rows: the input cavity first, the output cavity last"),
-    Check(("cavities",), _no_problem("empty"),
-          "cavities: only Qext may be empty (an idle cavity); every other cell needs a number"),
-    Check(("cavities",), _no_problem("value"),
-          "cavities: resonant frequency, R/Q, Q0 and gap length must be > 0, Qext > 0 or "
-          "empty"),
-    Check(("cavities",), _no_problem("order"),
-          "cavities rows must run input to output: positions strictly increasing along the "
-          "beam"),
-    Check(("cavities",), _no_problem("port"),
-          "cavities: the input (first) and output (last) cavity need a finite Qext"),
+    Check(("cavities",), _no_problem("layout"), _problem_text("layout"), "#VALUE!"),
+    Check(("cavities",), _no_problem("rows"), _problem_text("rows")),
+    Check(("cavities",), _no_problem("empty"), _problem_text("empty")),
+    Check(("cavities",), _no_problem("value"), _problem_text("value")),
+    Check(("cavities",), _no_problem("order"), _problem_text("order")),
+    Check(("cavities",), _no_problem("port"), _problem_text("port")),
     Check(("beam_radius", "tunnel_radius"), _beam_in_tunnel,
           "beam_radius must be <= tunnel_radius"),
     Check(("frequency", "voltage", "current", "beam_radius", "tunnel_radius", "cavities"),

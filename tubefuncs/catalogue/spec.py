@@ -110,12 +110,14 @@ class Check:
 
     ``test(*values)`` returns a boolean mask (True = fine) for the arguments
     named in ``args``; ``message`` states what is allowed, e.g.
-    ``"beam_radius must be <= tunnel_radius"``.
+    ``"beam_radius must be <= tunnel_radius"`` (the values received are
+    appended), or is a function of the same arguments returning the whole
+    message (for messages that must say, e.g., which table row is wrong).
     """
 
     args: tuple[str, ...]
     test: Callable[..., Any]
-    message: str
+    message: str | Callable[..., str]
     error_value: str = "#NUM!"
 
 

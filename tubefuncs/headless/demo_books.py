@@ -43,7 +43,7 @@ def _rows(ws, start: int, rows) -> None:
             ws.cell(r, 1, row).font = BOLD
         elif row is not None:
             for c, v in enumerate(row, 1):
-                if v is not None:
+                if v is not None and v != "":
                     ws.cell(r, c, v)
         r += 1
 
@@ -188,7 +188,7 @@ def uplink_budget() -> openpyxl.Workbook:
         ("Slant range", "38500 km", ""),                              # 11
         ("Satellite G/T", 3.5, "dB/K"),                               # 12
         ("Atmosphere and pointing losses", 0.9, "dB"),                # 13
-        ("Required C/N0", 95, "dB-Hz"),                               # 14
+        ("Required C/N0", 108, "dB-Hz"),                               # 14
         None,
         "Budget",                                                     # 16
         ("Output back-off",
@@ -203,7 +203,7 @@ def uplink_budget() -> openpyxl.Workbook:
         ("Status", '=IF(B24>=3, "OK (3 dB margin or more)", "LOW MARGIN")', ""),  # 25
         ("AM/PM at the operating point",
          "=INDEX(Amplifier!E6:E31, MATCH(ibo_db, Amplifier!A6:A31, 0))", "deg"),  # 26
-        ("Path loss check", "=20*LOG10(4*PI()*38500000*14.25E+9/299792458)", "dB"),  # 27
+        ("Path loss check", "=20*LOG10(4*PI()*38500000*1.425E+10/299792458)", "dB"),  # 27
         None,
         (SAFETY_LINES[0],),
         (SAFETY_LINES[1],),

@@ -162,7 +162,11 @@ class Plan:
                     self.name_errors.append((anchor, slot.message))
                 for area in slot.areas():
                     graph.add_read(anchor, book.sheet(area.sheet).index, area)
-        self.order = [a for a in graph.order() if a in self.cells]
+        try:
+            order = graph.order()
+        except WorkbookError as exc:
+            raise WorkbookError(f"{book.path}: {exc.message}") from None
+        self.order = [a for a in order if a in self.cells]
 
     # ------------------------------------------------------------- evaluating
     def evaluate_cell(self, anchor, env: Env) -> None:

@@ -18,6 +18,7 @@ skeleton.  A vectorised evaluator can group cells by the same skeleton.
 from __future__ import annotations
 
 import functools
+import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -58,6 +59,7 @@ def tokenize(text: str) -> list:
         items = Tokenizer(text).items
     except (TokenizerError, IndexError, ValueError) as exc:
         raise FormulaSyntaxError(str(exc)) from None
+    items = _merge_exponents(items)
     out = []
     for i, tok in enumerate(items):
         if tok.type == Token.WSPACE:
@@ -68,6 +70,29 @@ def tokenize(text: str) -> list:
                 out.append(Token(" ", Token.OP_IN))
             continue
         out.append(tok)
+    return out
+
+
+_RE_MANTISSA = re.compile(r"^[0-9]*\.?[0-9]+E$", re.IGNORECASE)
+
+
+def _merge_exponents(items) -> list:
+    """``14.25E+9``: openpyxl's tokenizer only knows one digit before the point
+    (the form Excel saves); rejoin other mantissas with their exponent."""
+    out = []
+    i = 0
+    while i < len(items):
+        tok = items[i]
+        if (tok.type == Token.OPERAND and tok.subtype == Token.RANGE
+                and _RE_MANTISSA.match(tok.value) and i + 2 < len(items)
+                and items[i + 1].type == Token.OP_IN and items[i + 1].value in "+-"
+                and items[i + 2].subtype == Token.NUMBER and items[i + 2].value.isdigit()):
+            out.append(Token(tok.value + items[i + 1].value + items[i + 2].value,
+                             Token.OPERAND, Token.NUMBER))
+            i += 3
+            continue
+        out.append(tok)
+        i += 1
     return out
 
 

@@ -107,6 +107,10 @@ def waveguide_loss(frequency, width, height, length, conductivity=COPPER_CONDUCT
         r2 = ((0.5 * sc.c) / (a * f)) ** 2               # (f_c / f)^2 with f_c = c/(2a)
         rs = np.sqrt((np.pi * sc.mu_0) * f / sigma)      # R_s = sqrt(pi f mu0 / sigma)
         alpha = rs * (1.0 + 2.0 * (b / a) * r2) / (b * ETA0 * np.sqrt(1.0 - r2))  # [1] Np/m
-        loss = DB20_PER_NEPER * alpha * ell
-    ok = (r2 < 1.0) & (f > 0) & (b > 0) & (b <= a) & (ell >= 0) & (sigma > 0)
-    return np.where(ok, loss, np.nan)[()]          # masks are cheap beside the formula
+        loss = (DB20_PER_NEPER * ell) * alpha
+    # Out of domain -> NaN.  Below cutoff, r2 >= 1 already makes the square root
+    # NaN or the division infinite, so only the other arguments need masks.
+    ok = (b > 0) & (b <= a) & (ell >= 0) & (sigma > 0) & (f > 0)
+    if np.all(ok) and np.ndim(loss) and np.isfinite(loss).all():
+        return loss
+    return np.where(ok & (r2 < 1.0), loss, np.nan)[()]
