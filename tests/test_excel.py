@@ -620,7 +620,7 @@ def test_through_xlwings_conversion_like_excel(worksheet, excel_engine, win_udfs
     """COM values in, xlwings' read/write pipeline with the Windows cleaning rules."""
     func = getattr(win_udfs, fn.name)
     com_args = []
-    for a, p in zip(sample_args(fn), fn.worksheet_params):
+    for a in sample_args(fn):
         if a is None:
             com_args.append(MISSING)
         elif isinstance(a, list):

@@ -145,7 +145,8 @@ def test_no_duplicate_function_names_ignoring_case():
 def test_python_twin_takes_positional_parameters_in_catalogue_order(fn):
     sig = inspect.signature(fn.func)
     kinds = {p.kind for p in sig.parameters.values()}
-    assert inspect.Parameter.KEYWORD_ONLY not in kinds, f"{fn.python_name} has keyword-only parameters"
+    assert inspect.Parameter.KEYWORD_ONLY not in kinds, (
+        f"{fn.python_name} has keyword-only parameters")
     assert inspect.Parameter.VAR_KEYWORD not in kinds, f"{fn.python_name} takes **kwargs"
     positional = [p.name for p in sig.parameters.values()
                   if p.kind in (p.POSITIONAL_ONLY, p.POSITIONAL_OR_KEYWORD)]

@@ -54,7 +54,8 @@ def loss_by_field_integration(f, a, b, sigma, length):
         return math.cos(math.pi * x / a) ** 2
 
     def sz(x):
-        return (omega * sc.mu_0 * a / math.pi) * (beta * a / math.pi) * math.sin(math.pi * x / a) ** 2
+        return ((omega * sc.mu_0 * a / math.pi) * (beta * a / math.pi)
+                * math.sin(math.pi * x / a) ** 2)
 
     opts = {"epsabs": 0, "epsrel": 1e-13, "limit": 200}
     power = 0.5 * b * quad(sz, 0, a, **opts)[0]

@@ -22,7 +22,6 @@ from tubefuncs.headless import recalculate, write_snapshot  # noqa: E402
 from tubefuncs.headless.demo_books import BUILDERS  # noqa: E402
 from tubefuncs.headless.writer import atomic_write_bytes  # noqa: E402
 
-
 FIXED_TIME = (2026, 1, 1, 0, 0, 0)
 
 

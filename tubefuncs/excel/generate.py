@@ -66,7 +66,7 @@ def argument_help(fn, param) -> str:
     if param.choices:
         parts.append("One of: " + ", ".join(f'"{c}"' for c in param.choices) + ".")
     if not param.required:
-        if param.default is None:
+        if param.default is None or "default" in param.help.lower():
             parts.append("Optional.")
         else:
             parts.append(f"Optional, default {_fmt_default(param.default, param.unit)}.")
@@ -121,6 +121,8 @@ arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
 arguments default to None.  The bodies only call tubefuncs.excel.adapter.call.
 """
+
+# ruff: noqa: E501  (help texts are long lines)
 
 import xlwings as xw
 

@@ -84,7 +84,8 @@ def _in_site_packages(path: Path) -> bool:
 
 
 def python_settings(interpreter: str | None = None, conda_path: str | None = None,
-                    conda_env: str | None = None, platform: str = sys.platform) -> tuple[dict, list]:
+                    conda_env: str | None = None,
+                    platform: str = sys.platform) -> tuple[dict, list]:
     """Settings naming the Python that runs the functions, and notes for the user."""
     settings: dict[str, str] = {}
     notes: list[str] = []

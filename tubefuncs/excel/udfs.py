@@ -5,12 +5,14 @@ GENERATED FILE: do not edit.  Regenerate after any catalogue change with
     python -m tubefuncs.excel.generate
 
 then click Import Functions on Excel's xlwings tab (see addin/README.md).
-39 functions, generated from tubefuncs.catalogue.  This is the only module
+42 functions, generated from tubefuncs.catalogue.  This is the only module
 of tubefuncs that imports xlwings.  Every argument is declared ndim=2 (a cell
 arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
 arguments default to None.  The bodies only call tubefuncs.excel.adapter.call.
 """
+
+# ruff: noqa: E501  (help texts are long lines)
 
 import xlwings as xw
 
@@ -27,6 +29,7 @@ __all__ = [
     "TUBE_CHILD_LANGMUIR",
     "TUBE_CN0",
     "TUBE_COLLECTOR_POWER",
+    "TUBE_CONVERT",
     "TUBE_COOLANT_FLOW",
     "TUBE_DISH_GAIN",
     "TUBE_EIRP",
@@ -36,6 +39,7 @@ __all__ = [
     "TUBE_GAP_VOLTAGE",
     "TUBE_GT",
     "TUBE_HARMONIC_CURRENT",
+    "TUBE_HELP",
     "TUBE_LOADED_Q",
     "TUBE_OPTIMUM_DRIFT",
     "TUBE_PERVEANCE",
@@ -54,6 +58,7 @@ __all__ = [
     "TUBE_SURFACE_RESISTANCE",
     "TUBE_TRANSIT_ANGLE",
     "TUBE_VELOCITY",
+    "TUBE_VERSION",
     "TUBE_WAVEGUIDE_CUTOFF",
     "TUBE_WAVEGUIDE_LOSS",
 ]
@@ -287,7 +292,7 @@ def TUBE_BEAM_LOADING(frequency, gap_length, voltage, current, unit=None):
 @xw.arg("voltage", ndim=2, err_to_str=True,
         doc='Beam accelerating voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
 @xw.arg("coupling", ndim=2, err_to_str=True,
-        doc='Beam-coupling coefficient M of the modulating gap (default 1). Number. A range gives a range. Optional, default 1.')
+        doc='Beam-coupling coefficient M of the modulating gap (default 1). Number. A range gives a range. Optional.')
 def TUBE_BUNCHING_PARAM(gap_voltage, frequency, drift_length, voltage, coupling=None):
     "Ballistic bunching parameter X = M V1 theta0/(V0 gamma(gamma+1)) (Webster's M V1 theta0/(2 V0) at low voltage). No space charge; X > 1.84 is overbunched."
     return _call("TUBE_BUNCHING_PARAM", (gap_voltage, frequency, drift_length, voltage, coupling))
@@ -299,7 +304,7 @@ def TUBE_BUNCHING_PARAM(gap_voltage, frequency, drift_length, voltage, coupling=
 @xw.arg("bunching_param", ndim=2, err_to_str=True,
         doc='Bunching parameter X. Number. A range gives a range.')
 @xw.arg("harmonic", ndim=2, err_to_str=True,
-        doc='Harmonic number, a whole number >= 1 (default 1). Number. A range gives a range. Optional, default 1.')
+        doc='Harmonic number, a whole number >= 1 (default 1). Number. A range gives a range. Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default A). Optional. E.g. "mA", "A".')
 def TUBE_HARMONIC_CURRENT(current, bunching_param, harmonic=None, unit=None):
@@ -321,7 +326,7 @@ def TUBE_PILLBOX_FREQ(radius, unit=None):
 @xw.arg("frequency", ndim=2, err_to_str=True,
         doc='Frequency. Number in Hz, or text with a unit. A range gives a range.')
 @xw.arg("conductivity", ndim=2, err_to_str=True,
-        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional, default 5.8e+07 S/m.')
+        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default m). Optional. E.g. "um", "mm".')
 def TUBE_SKIN_DEPTH(frequency, conductivity=None, unit=None):
@@ -333,7 +338,7 @@ def TUBE_SKIN_DEPTH(frequency, conductivity=None, unit=None):
 @xw.arg("frequency", ndim=2, err_to_str=True,
         doc='Frequency. Number in Hz, or text with a unit. A range gives a range.')
 @xw.arg("conductivity", ndim=2, err_to_str=True,
-        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional, default 5.8e+07 S/m.')
+        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default ohm). Optional. E.g. "mohm", "ohm".')
 def TUBE_SURFACE_RESISTANCE(frequency, conductivity=None, unit=None):
@@ -347,7 +352,7 @@ def TUBE_SURFACE_RESISTANCE(frequency, conductivity=None, unit=None):
 @xw.arg("length", ndim=2, err_to_str=True,
         doc='Inner length of the pillbox (the gap). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("conductivity", ndim=2, err_to_str=True,
-        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional, default 5.8e+07 S/m.')
+        doc='Electrical conductivity of the wall (default annealed copper, 5.8e7 S/m). Number in S/m, or text with a unit. A range gives a range. Optional.')
 def TUBE_PILLBOX_Q(radius, length, conductivity=None):
     'Unloaded Q of the TM010 mode of a closed pillbox (side wall and end plates, no beam holes): (radius/delta)/(1 + radius/length).'
     return _call("TUBE_PILLBOX_Q", (radius, length, conductivity))
@@ -361,7 +366,7 @@ def TUBE_PILLBOX_Q(radius, length, conductivity=None):
 @xw.arg("voltage", ndim=2, err_to_str=True,
         doc='Beam voltage; when given, R/Q includes the transit-time factor T^2, else T = 1 (geometric). Number in V, or text with a unit. A range gives a range. Optional.')
 @xw.arg("convention", ndim=2, err_to_str=True,
-        doc='Shunt-impedance convention: "circuit" (R = V^2/2P, default) or "accelerator" (R = V^2/P; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional, default "circuit".')
+        doc='Shunt-impedance convention: "circuit" (R = V^2/2P, default) or "accelerator" (R = V^2/P; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default ohm). Optional.')
 def TUBE_PILLBOX_R_OVER_Q(radius, length, voltage=None, convention=None, unit=None):
@@ -387,7 +392,7 @@ def TUBE_LOADED_Q(q0, qext):
 @xw.arg("q_loaded", ndim=2, err_to_str=True,
         doc='Loaded quality factor QL. Number. A range gives a range.')
 @xw.arg("convention", ndim=2, err_to_str=True,
-        doc='Shunt-impedance convention: "circuit" (R = V^2/2P, default) or "accelerator" (R = V^2/P; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional, default "circuit".')
+        doc='Shunt-impedance convention: "circuit" (R = V^2/2P, default) or "accelerator" (R = V^2/P; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default V). Optional. E.g. "kV", "V".')
 def TUBE_GAP_VOLTAGE(power, r_over_q, q_loaded, convention=None, unit=None):
@@ -495,7 +500,7 @@ def TUBE_WAVEGUIDE_CUTOFF(width, unit=None):
 @xw.arg("length", ndim=2, err_to_str=True,
         doc='Length of the waveguide run. Number in m, or text with a unit. A range gives a range.')
 @xw.arg("conductivity", ndim=2, err_to_str=True,
-        doc='Wall conductivity; default annealed copper 5.8e7 S/m. Number in S/m, or text with a unit. A range gives a range. Optional, default 5.8e+07 S/m.')
+        doc='Wall conductivity; default annealed copper 5.8e7 S/m. Number in S/m, or text with a unit. A range gives a range. Optional.')
 def TUBE_WAVEGUIDE_LOSS(frequency, width, height, length, conductivity=None):
     'Conductor loss in dB of the TE10 mode over a length of rectangular waveguide, smooth walls; real guides lose about 10-30 % more.'
     return _call("TUBE_WAVEGUIDE_LOSS", (frequency, width, height, length, conductivity))
@@ -517,7 +522,7 @@ def TUBE_FSPL(frequency, distance):
 @xw.arg("diameter", ndim=2, err_to_str=True,
         doc='Aperture diameter of the dish. Number in m, or text with a unit. A range gives a range.')
 @xw.arg("efficiency", ndim=2, err_to_str=True,
-        doc='Aperture efficiency, 0 < efficiency <= 1 (default 0.6). Number. A range gives a range. Optional, default 0.6.')
+        doc='Aperture efficiency, 0 < efficiency <= 1 (default 0.6). Number. A range gives a range. Optional.')
 def TUBE_DISH_GAIN(frequency, diameter, efficiency=None):
     'Gain in dBi of a circular aperture (dish): 10 log10(efficiency (pi D/lambda)^2).'
     return _call("TUBE_DISH_GAIN", (frequency, diameter, efficiency))
@@ -529,7 +534,7 @@ def TUBE_DISH_GAIN(frequency, diameter, efficiency=None):
 @xw.arg("antenna_gain_dbi", ndim=2, err_to_str=True,
         doc='Transmit antenna gain in dBi. Number. A range gives a range.')
 @xw.arg("feed_loss_db", ndim=2, err_to_str=True,
-        doc='Feed loss in dB, a positive number (default 0). Number. A range gives a range. Optional, default 0.')
+        doc='Feed loss in dB, a positive number (default 0). Number. A range gives a range. Optional.')
 def TUBE_EIRP(power, antenna_gain_dbi, feed_loss_db=None):
     'EIRP in dBW = 10 log10(power/1 W) + antenna gain (dBi) - feed loss (dB). Caution: design estimate, not a rating (see TUBE_HELP / docs).'
     return _call("TUBE_EIRP", (power, antenna_gain_dbi, feed_loss_db))
@@ -553,7 +558,7 @@ def TUBE_GT(antenna_gain_dbi, system_temperature):
 @xw.arg("g_over_t_dbk", ndim=2, err_to_str=True,
         doc='Receiver G/T in dB/K. Number. A range gives a range.')
 @xw.arg("other_losses_db", ndim=2, err_to_str=True,
-        doc='Further losses in dB, positive (default 0). Number. A range gives a range. Optional, default 0.')
+        doc='Further losses in dB, positive (default 0). Number. A range gives a range. Optional.')
 def TUBE_CN0(eirp_dbw, path_loss_db, g_over_t_dbk, other_losses_db=None):
     'Carrier to noise density C/N0 in dB-Hz = EIRP - path loss - other losses + G/T + 228.5992 (-10 log10 of the Boltzmann constant).'
     return _call("TUBE_CN0", (eirp_dbw, path_loss_db, g_over_t_dbk, other_losses_db))
@@ -563,9 +568,9 @@ def TUBE_CN0(eirp_dbw, path_loss_db, g_over_t_dbk, other_losses_db=None):
 @xw.arg("drive", ndim=2, err_to_str=True,
         doc='Normalised input envelope amplitude r. Number. A range gives a range.')
 @xw.arg("alpha", ndim=2, err_to_str=True,
-        doc='Small-signal gain coefficient alpha_a (default 2.1587). Number. A range gives a range. Optional, default 2.1587.')
+        doc='Small-signal gain coefficient alpha_a (default 2.1587). Number. A range gives a range. Optional.')
 @xw.arg("beta", ndim=2, err_to_str=True,
-        doc='Compression coefficient beta_a (default 1.1517). Number. A range gives a range. Optional, default 1.1517.')
+        doc='Compression coefficient beta_a (default 1.1517). Number. A range gives a range. Optional.')
 def TUBE_SALEH_AMPLITUDE(drive, alpha=None, beta=None):
     'Saleh (1981) amplifier model, AM/AM: normalised output amplitude alpha r/(1 + beta r^2) for drive r; peaks at r = 1/sqrt(beta).'
     return _call("TUBE_SALEH_AMPLITUDE", (drive, alpha, beta))
@@ -575,11 +580,37 @@ def TUBE_SALEH_AMPLITUDE(drive, alpha=None, beta=None):
 @xw.arg("drive", ndim=2, err_to_str=True,
         doc='Normalised input envelope amplitude r. Number. A range gives a range.')
 @xw.arg("alpha", ndim=2, err_to_str=True,
-        doc='Phase coefficient alpha_phi in rad (default 4.0033). Number in rad, or text with a unit. A range gives a range. Optional, default 4.0033 rad.')
+        doc='Phase coefficient alpha_phi in rad (default 4.0033). Number in rad, or text with a unit. A range gives a range. Optional.')
 @xw.arg("beta", ndim=2, err_to_str=True,
-        doc='Phase compression coefficient beta_phi (default 9.1040). Number. A range gives a range. Optional, default 9.104.')
+        doc='Phase compression coefficient beta_phi (default 9.1040). Number. A range gives a range. Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default rad). Optional. E.g. "deg", "rad".')
 def TUBE_SALEH_PHASE(drive, alpha=None, beta=None, unit=None):
     'Saleh (1981) amplifier model, AM/PM: output phase shift alpha r^2/(1 + beta r^2) in rad for drive r.'
     return _call("TUBE_SALEH_PHASE", (drive, alpha, beta, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("value", ndim=2, err_to_str=True,
+        doc='The number to convert, in from_unit. Number. A range gives a range.')
+@xw.arg("from_unit", ndim=2, err_to_str=True,
+        doc="Unit of value, e.g. 'kW', 'dBm', 'GHz', 'uperv'.")
+@xw.arg("to_unit", ndim=2, err_to_str=True,
+        doc="Unit wanted, same dimension, e.g. 'W', 'dBW', 'MHz'.")
+def TUBE_CONVERT(value, from_unit, to_unit):
+    "Converts a value between units of the same dimension; dBm and dBW work for power (plain tested conversions, not pint's logarithmic units)."
+    return _call("TUBE_CONVERT", (value, from_unit, to_unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("function_name", ndim=2, err_to_str=True,
+        doc="Worksheet name of a tubefuncs function, e.g. 'TUBE_TRANSIT_ANGLE'.")
+def TUBE_HELP(function_name):
+    'One-line help of a tubefuncs worksheet function: its arguments and what it returns.'
+    return _call("TUBE_HELP", (function_name,))
+
+
+@xw.func(category="tubefuncs")
+def TUBE_VERSION():
+    'Version of the tubefuncs library that computes this workbook.'
+    return _call("TUBE_VERSION", ())

@@ -20,7 +20,10 @@ UDF_PREFIXES = ("_XLUDF.", "_XLL.", "_XLFN._XLWS.", "_XLWS.", "_XLFN.")
 
 
 def strip_udf_prefix(name: str) -> str:
-    """``_xludf.TUBE_GAMMA`` / ``'C:\\addin.xlam'!TUBE_GAMMA`` / ``[1]!TUBE_GAMMA`` -> ``TUBE_GAMMA``."""
+    """Catalogue name of a saved UDF name.
+
+    ``_xludf.TUBE_GAMMA``, ``'C:\\addin.xlam'!TUBE_GAMMA``, ``[1]!TUBE_GAMMA`` -> ``TUBE_GAMMA``.
+    """
     upper = name.upper()
     if "!" in upper:          # add-in or external-workbook qualified name
         upper = upper.rpartition("!")[2]

@@ -37,7 +37,7 @@ class Comparison:
     def ok(self) -> bool:
         return not self.differences
 
-    def for_sheet(self, sheet_index: int) -> "Comparison":
+    def for_sheet(self, sheet_index: int) -> Comparison:
         return Comparison([d for d in self.differences if d.key and d.key[0] == sheet_index],
                           self.compared,
                           [n for n in self.name_errors if n[2] == sheet_index])

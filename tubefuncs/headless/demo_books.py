@@ -265,13 +265,14 @@ def frequency_sweep(points: int = SWEEP_POINTS) -> openpyxl.Workbook:
         None,
         "Summary of the sweep",                       # 14
         ("Points", f"=COUNT(Sweep!A{SWEEP_FIRST_ROW}:A{last})", ""),                # 15
-        ("Last frequency", f"=MAX(Sweep!A:A)", "Hz"),                               # 16
+        ("Last frequency", "=MAX(Sweep!A:A)", "Hz"),                               # 16
         ("Coupling, gridless: min", f"=MIN(Sweep!C{SWEEP_FIRST_ROW}:C{last})", ""),  # 17
         ("Coupling, gridless: max", f"=MAX(Sweep!C{SWEEP_FIRST_ROW}:C{last})", ""),  # 18
         ("Guide loss per 10 m: mean", f"=AVERAGE(Sweep!E{SWEEP_FIRST_ROW}:E{last})", "dB"),
         ("Peak small-signal gain", f"=MAX(Sweep!G{SWEEP_FIRST_ROW}:G{last})", "dB"),  # 20
         ("Frequency of peak gain",
-         f"=INDEX(Sweep!A{SWEEP_FIRST_ROW}:A{last}, MATCH(B20, Sweep!G{SWEEP_FIRST_ROW}:G{last}, 0))",
+         f"=INDEX(Sweep!A{SWEEP_FIRST_ROW}:A{last}, "
+         f"MATCH(B20, Sweep!G{SWEEP_FIRST_ROW}:G{last}, 0))",
          "Hz"),                                                                      # 21
         ("Optimum drift at 2.998 GHz",
          '=TUBE_OPTIMUM_DRIFT("2.998 GHz", beam_i, v_beam, beam_radius, tunnel_radius, "mm")',

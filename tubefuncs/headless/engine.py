@@ -261,7 +261,7 @@ def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
     (evaluator or SequentialEvaluator()).evaluate(plan, env, progress)
     t3 = time.perf_counter()
     values = {}
-    for anchor, (compiled, slots, block) in plan.cells.items():
+    for anchor, (_, _, block) in plan.cells.items():
         s, r, c = anchor
         if block is None:
             values[anchor] = env.cells[s][(r, c)]

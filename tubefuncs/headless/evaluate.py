@@ -93,6 +93,19 @@ class Env:
         self._range_cache[key] = out
         return out
 
+    def subtotal_values(self, area: Area, skip_hidden: bool):
+        """Values of an area for SUBTOTAL: nested SUBTOTAL cells (and hidden rows) blanked."""
+        sheet = self.book.sheets[self.sheet_index(area.sheet)]
+        arr = V.as_array(self.read(area)).copy()
+        for (r, c), cell in sheet.formulas.items():
+            if area.contains(r, c) and "SUBTOTAL(" in cell.text.upper():
+                arr[r - area.r1, c - area.c1] = V.EMPTY
+        if skip_hidden:
+            for r in sheet.hidden_rows:
+                if area.r1 <= r <= area.r2:
+                    arr[r - area.r1, :] = V.EMPTY
+        return arr
+
     def read_reference(self, ref):
         """Value of an Area, of a union (list of Areas: one row of all values) or an error."""
         if isinstance(ref, Area):

@@ -59,7 +59,7 @@ def tokenize(text: str) -> list:
         items = Tokenizer(text).items
     except (TokenizerError, IndexError, ValueError) as exc:
         raise FormulaSyntaxError(str(exc)) from None
-    items = _merge_exponents(items)
+    items = _implicit_intersections(_merge_exponents(items))
     out = []
     for i, tok in enumerate(items):
         if tok.type == Token.WSPACE:
@@ -93,6 +93,19 @@ def _merge_exponents(items) -> list:
             continue
         out.append(tok)
         i += 1
+    return out
+
+
+def _implicit_intersections(items) -> list:
+    """``@A1:A3`` -> ``SINGLE(A1:A3)`` (the form Excel saves is ``_xlfn.SINGLE``)."""
+    out = []
+    for tok in items:
+        if tok.type == Token.OPERAND and tok.subtype == Token.RANGE and tok.value.startswith("@"):
+            out.append(Token("SINGLE(", Token.FUNC, Token.OPEN))
+            out.append(Token(tok.value[1:], Token.OPERAND, Token.RANGE))
+            out.append(Token(")", Token.FUNC, Token.CLOSE))
+        else:
+            out.append(tok)
     return out
 
 
@@ -322,7 +335,7 @@ class _Compiler:
             refs = [self.reference(a) if a[0] in ("ref", "bin") else self.value(a)
                     for a in arg_nodes]
             return lambda env, slots: reference_function(
-                name, [r(env, slots) for r in refs], env.host)
+                name, [r(env, slots) for r in refs], env.host, env)
         args = [self.value(a) for a in arg_nodes]
         if res.kind == "catalogue":
             self.catalogue.append(res.target)

@@ -14,6 +14,7 @@ Resolution order for a name as written in a formula:
 from __future__ import annotations
 
 import functools
+import math
 
 import formulas
 import numpy as np
@@ -42,7 +43,7 @@ UNSUPPORTED = {
 }
 
 #: Functions whose arguments are references, answered by the engine itself.
-REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS"})
+REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "SUBTOTAL", "SINGLE"})
 
 
 def _is_text(v) -> bool:
@@ -106,8 +107,122 @@ def excel_library() -> dict:
             if key in out:
                 out[key] = _numbers_only(out[key])
     out["ISNUMBER"] = _isnumber
+    for name, fn in _EXTRAS.items():
+        out.setdefault(name, fn)
+        out.setdefault("_XLFN." + name, fn)
     return out
 
+
+# ----------------------------------------------------------------------------- extras
+# Excel functions `formulas` 1.3 lacks, written here from Excel's documented
+# definitions.
+
+def _number(x):
+    """Excel's coercion of one argument to a number, or an error value."""
+    x = V.scalar(x)
+    if isinstance(x, np.ndarray):
+        return V.VALUE
+    if V.is_error(x):
+        return x
+    if x is V.EMPTY:
+        return 0.0
+    if isinstance(x, bool):
+        return float(x)
+    if isinstance(x, float):
+        return x
+    try:
+        return float(str(x).strip())
+    except ValueError:
+        return V.VALUE
+
+
+def _numbers(*args):
+    vals = [_number(a) for a in args]
+    for v in vals:
+        if V.is_error(v):
+            return v, None
+    return None, vals
+
+
+def _quotient(numerator, denominator):
+    err, (n, d) = _numbers(numerator, denominator)
+    if err is not None:
+        return err
+    if d == 0:
+        return V.DIV0
+    return float(math.trunc(n / d))
+
+
+def _combin(number, chosen):
+    err, (n, k) = _numbers(number, chosen)
+    if err is not None:
+        return err
+    n, k = math.trunc(n), math.trunc(k)
+    if n < 0 or k < 0 or k > n:
+        return V.NUM
+    return float(math.comb(n, k))
+
+
+def _combina(number, chosen):
+    err, (n, k) = _numbers(number, chosen)
+    if err is not None:
+        return err
+    n, k = math.trunc(n), math.trunc(k)
+    if n < 0 or k < 0 or (n == 0 and k > 0):
+        return V.NUM
+    return float(math.comb(n + k - 1, k)) if n + k > 0 else 1.0
+
+
+def _sequence(rows, columns=V.EMPTY, start=V.EMPTY, step=V.EMPTY):
+    err, (r, c, s, d) = _numbers(rows, 1.0 if columns is V.EMPTY else columns,
+                                 1.0 if start is V.EMPTY else start,
+                                 1.0 if step is V.EMPTY else step)
+    if err is not None:
+        return err
+    r, c = math.trunc(r), math.trunc(c)
+    if r < 1 or c < 1:
+        return V.ERRORS["#CALC!"]
+    if r * c > 5_000_000:
+        return V.NUM
+    out = np.empty((r, c), dtype=object)
+    for i in range(r):
+        for j in range(c):
+            out[i, j] = s + d * (i * c + j)
+    return out
+
+
+_EXTRAS = {"QUOTIENT": _quotient, "COMBIN": _combin, "COMBINA": _combina,
+           "SEQUENCE": _sequence}
+
+#: SUBTOTAL function numbers -> aggregate (1-11; 101-111 also skip hidden rows).
+_SUBTOTAL = {1: "AVERAGE", 2: "COUNT", 3: "COUNTA", 4: "MAX", 5: "MIN", 6: "PRODUCT",
+             7: "STDEV", 8: "STDEVP", 9: "SUM", 10: "VAR", 11: "VARP"}
+
+
+def subtotal(args: list, env) -> object:
+    """SUBTOTAL(function_num, ref1, ...): skips SUBTOTAL cells inside the
+    references and, for 101-111, hidden rows (Excel's documented behaviour)."""
+    from .references import Area
+
+    if len(args) < 2:
+        return V.VALUE
+    code = _number(env.read_reference(args[0]) if isinstance(args[0], (Area, list))
+                   else args[0])
+    if V.is_error(code):
+        return code
+    code = int(code)
+    skip_hidden = code > 100
+    name = _SUBTOTAL.get(code - 100 if skip_hidden else code)
+    if name is None:
+        return V.VALUE
+    values = []
+    for arg in args[1:]:
+        areas = arg if isinstance(arg, list) else [arg]
+        for area in areas:
+            if not isinstance(area, Area):
+                return V.VALUE if not V.is_error(area) else area
+            values.append(env.subtotal_values(env.clip(area), skip_hidden))
+    return V.scalar(excel_library()[name](*values))
 
 def _formulas_library() -> dict:
     out = {}
@@ -168,10 +283,14 @@ def resolve(written: str) -> Resolution:
     return Resolution("unknown", None, bare, f"unknown function {bare}")
 
 
-def reference_function(name: str, args: list, host) -> object:
-    """ROW/COLUMN/ROWS/COLUMNS: ``args`` hold areas (or values for ROWS/COLUMNS)."""
+def reference_function(name: str, args: list, host, env=None) -> object:
+    """ROW/COLUMN/ROWS/COLUMNS/SUBTOTAL: ``args`` hold areas (or values)."""
     from .references import Area
 
+    if name == "SUBTOTAL":
+        return subtotal(args, env)
+    if name == "SINGLE":
+        return implicit_intersection(args, host, env)
     if len(args) > 1:
         return V.VALUE
     if not args:
@@ -193,6 +312,30 @@ def reference_function(name: str, args: list, host) -> object:
         return V.VALUE
     shape = V.as_array(arg).shape
     return float(shape[0] if name == "ROWS" else shape[1])
+
+
+def implicit_intersection(args: list, host, env):
+    """``@ref`` (saved as ``_xlfn.SINGLE``): the cell of ``ref`` in the formula's
+    row or column; a single value for an array (Excel's implicit intersection)."""
+    from .references import Area
+
+    if len(args) != 1:
+        return V.VALUE
+    arg = args[0]
+    if isinstance(arg, Area):
+        area = env.clip(arg)
+        if area.is_cell:
+            return env.read(area)
+        if host is not None and env.sheet_index(area.sheet) == host[0]:
+            _, r, c = host
+            if area.c1 == area.c2 and area.r1 <= r <= area.r2:
+                return env.read(Area(area.sheet, r, area.c1, r, area.c1))
+            if area.r1 == area.r2 and area.c1 <= c <= area.c2:
+                return env.read(Area(area.sheet, area.r1, c, area.r1, c))
+        return V.VALUE
+    if isinstance(arg, np.ndarray) and arg.ndim > 0:
+        return V.as_array(arg)[0, 0]
+    return arg
 
 
 def _column_vector(rows) -> np.ndarray:

@@ -100,7 +100,8 @@ def inspect_file(path, limits: Limits = DEFAULT_LIMITS) -> None:
 def _describe_ole(name: str) -> str:
     with open(name, "rb") as fh:
         blob = fh.read(4 * MiB)
-    if "EncryptionInfo".encode("utf-16-le") in blob or "EncryptedPackage".encode("utf-16-le") in blob:
+    markers = ("EncryptionInfo".encode("utf-16-le"), "EncryptedPackage".encode("utf-16-le"))
+    if any(m in blob for m in markers):
         return (f"{name}: encrypted (password-protected) workbook; save an unencrypted copy "
                 f"as .xlsx or .xlsm to check it headless")
     return (f"{name}: an OLE compound file (a legacy .xls workbook or an encrypted one), "

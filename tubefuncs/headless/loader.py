@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 from xml.etree.ElementTree import ParseError
 
 from openpyxl.reader.excel import ExcelReader
-from openpyxl.worksheet._reader import FORMULA_TAG, VALUE_TAG, WorkSheetParser
+from openpyxl.worksheet._reader import VALUE_TAG, WorkSheetParser
 from openpyxl.worksheet.formula import ArrayFormula, DataTableFormula
 
 from . import values as V
@@ -56,6 +56,7 @@ class Sheet:
     cached: dict = field(default_factory=dict)      # (row, col) -> value cached in the file
     max_row: int = 0
     max_col: int = 0
+    hidden_rows: frozenset = frozenset()
 
 
 @dataclass
@@ -144,7 +145,7 @@ def _read(name: str, limits: Limits) -> Book:
         reader.read_workbook()
         sheets = []
         cells_left = limits.max_cells
-        for index, (entry, rel) in enumerate(reader.parser.find_sheets()):
+        for entry, rel in reader.parser.find_sheets():
             if "chartsheet" in (rel.Type or ""):
                 continue
             if rel.target not in reader.valid_files:
@@ -204,6 +205,9 @@ def _read_sheet(name, sheet: Sheet, src, shared_strings, cells_left: int, limits
             if c > max_col:
                 max_col = c
     sheet.max_row, sheet.max_col = max_row, max_col
+    sheet.hidden_rows = frozenset(
+        int(r) for r, attrs in parser.row_dimensions.items()
+        if str(attrs.get("hidden", "")).lower() in ("1", "true"))
     return cells_left
 
 
