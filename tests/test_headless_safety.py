@@ -300,3 +300,16 @@ def test_too_many_cells(tmp_path, capsys):
 def test_missing_file_and_directory(tmp_path, capsys):
     assert_refused(capsys, str(tmp_path / "nope.xlsx"), "no such file")
     assert_refused(capsys, str(tmp_path), "directory")
+
+
+def test_outputs_get_ordinary_file_permissions(tmp_path, book):
+    from tubefuncs.headless import write_snapshot
+
+    mask = os.umask(0o022)
+    try:
+        out = write_recalculated(recalculate(book), tmp_path / "out.xlsx")
+        snap = write_snapshot(recalculate(book), tmp_path / "snap.tsv")
+    finally:
+        os.umask(mask)
+    assert os.stat(out).st_mode & 0o777 == 0o644
+    assert os.stat(snap).st_mode & 0o777 == 0o644

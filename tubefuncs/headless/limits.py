@@ -40,12 +40,12 @@ class Limits:
     """Bounds on what the engine accepts (each overridable from the command line)."""
 
     max_file_bytes: int = 100 * MiB
-    max_total_uncompressed: int = 1024 * MiB
-    max_part_uncompressed: int = 512 * MiB
+    max_total_uncompressed: int = 512 * MiB
+    max_part_uncompressed: int = 256 * MiB
     max_ratio: float = 200.0            # for parts larger than ratio_floor
     ratio_floor: int = 4 * MiB
     max_parts: int = 10_000
-    max_cells: int = 5_000_000          # cells of all sheets together
+    max_cells: int = 2_000_000          # cells of all sheets together
     max_claimed_area: int = 100_000_000  # a sheet's <dimension> claim
     max_range_cells: int = 5_000_000    # one range read by a formula
     max_formula_length: int = 8_192     # Excel's own limit

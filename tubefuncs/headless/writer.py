@@ -16,10 +16,23 @@ from . import values as V
 from .problems import WorkbookError
 
 
+def _temp_beside(path: str, suffix: str):
+    """A temporary file in ``path``'s folder, with the permissions a new file gets
+    (mkstemp makes it private)."""
+    folder = os.path.dirname(os.path.abspath(path))
+    fd, tmp = tempfile.mkstemp(prefix=".tubefuncs-", suffix=suffix, dir=folder)
+    mask = os.umask(0)
+    os.umask(mask)
+    try:
+        os.chmod(tmp, 0o666 & ~mask)
+    except OSError:
+        pass
+    return fd, tmp
+
+
 def atomic_write_bytes(path, data: bytes) -> None:
     path = os.fspath(path)
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".tubefuncs-", suffix=".tmp", dir=folder)
+    fd, tmp = _temp_beside(path, ".tmp")
     try:
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
@@ -78,9 +91,7 @@ def write_recalculated(recalc, out_path) -> str:
                 cell.data_type = "s"   # a computed text, not a formula
             else:
                 cell.value = value
-        folder = os.path.dirname(os.path.abspath(out_path))
-        fd, tmp = tempfile.mkstemp(prefix=".tubefuncs-", suffix=os.path.splitext(out_path)[1],
-                                   dir=folder)
+        fd, tmp = _temp_beside(out_path, os.path.splitext(out_path)[1])
         os.close(fd)
         try:
             wb.save(tmp)
