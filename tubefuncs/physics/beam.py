@@ -24,19 +24,10 @@ from __future__ import annotations
 import numpy as np
 from scipy import constants as sc
 
+from ._domain import _masked
+
 #: Electron rest energy over the elementary charge, m_e c^2 / e. [V]
 REST_VOLTAGE = sc.m_e * sc.c**2 / sc.e
-
-
-def _masked(ok, value):
-    """``value`` with NaN where ``ok`` is False, as a numpy scalar for 0-d input.
-
-    The common case (all valid) costs one pass over a boolean array, so the
-    domain check stays cheap against the formula itself.
-    """
-    if not ok.all():
-        value = np.where(ok, value, np.nan)
-    return value[()]
 
 
 def gamma(voltage):

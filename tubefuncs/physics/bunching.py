@@ -26,8 +26,8 @@ import numpy as np
 from scipy import constants as sc
 from scipy import special
 
+from ._domain import _domain_ok, _nan_where_invalid
 from .beam import beta, gamma
-from .gap import _domain_ok, _nan_where_invalid
 
 _TWO_PI_OVER_C = 2.0 * np.pi / sc.c
 

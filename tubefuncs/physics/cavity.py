@@ -36,8 +36,8 @@ from scipy import constants as sc
 from scipy import special
 
 from ..materials import COPPER_CONDUCTIVITY
+from ._domain import _domain_ok, _nan_where_invalid
 from .beam import beta
-from .gap import _domain_ok, _nan_where_invalid
 
 #: First zero of J0, p01 [3]. [1]
 P01 = float(special.jn_zeros(0, 1)[0])

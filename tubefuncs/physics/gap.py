@@ -27,43 +27,11 @@ import numpy as np
 from scipy import constants as sc
 from scipy import special
 
+from ._domain import _domain_ok, _nan_where_invalid
 from .beam import beta, beta_gamma, gamma
 
 TWO_PI = 2.0 * np.pi
 _TWO_PI_OVER_C = TWO_PI / sc.c
-
-
-def _domain_ok(nonnegative=(), positive=()):
-    """Mask: every array of ``nonnegative`` is >= 0 and every one of ``positive`` > 0.
-
-    Returns ``np.True_`` when all elements pass, found through reductions
-    (no temporary arrays); NaN elements fail.
-    """
-    if (all(x.size == 0 or x.min() >= 0 for x in nonnegative)
-            and all(x.size == 0 or x.min() > 0 for x in positive)):
-        return np.True_
-    ok = np.True_
-    for x in nonnegative:
-        ok = ok & (x >= 0)
-    for x in positive:
-        ok = ok & (x > 0)
-    return ok
-
-
-def _nan_where_invalid(y, ok):
-    """``y`` with NaN wherever ``ok`` is False, as a numpy scalar or array.
-
-    Cheaper than ``np.where`` for large arrays: nothing is copied when every
-    element is valid, and otherwise the fresh result array ``y`` is patched in
-    place.  ``y`` must be a new array of this call (never a caller's input).
-    """
-    if np.all(ok):
-        return y[()]
-    if (isinstance(y, np.ndarray) and y.flags.writeable
-            and np.broadcast_shapes(y.shape, np.shape(ok)) == y.shape):
-        np.copyto(y, np.nan, where=~ok)
-        return y[()]
-    return np.where(ok, y, np.nan)[()]
 
 
 def transit_angle(frequency, length, voltage):

@@ -34,7 +34,8 @@ import numpy as np
 from scipy import constants as sc
 from scipy import special
 
-from .beam import ETA, REST_VOLTAGE, _masked
+from ._domain import _masked
+from .beam import ETA, REST_VOLTAGE
 
 #: First zero of J0, j_{0,1} = 2.404826 (dimensionless).
 J01 = float(special.jn_zeros(0, 1)[0])
