@@ -21,7 +21,15 @@ from scipy import constants as sc
 from scipy.optimize import minimize_scalar
 
 from tubefuncs.catalogue import CATALOGUE
-from tubefuncs.physics.link import cn0, dish_gain, eirp, fspl, gt, saleh_amplitude, saleh_phase
+from tubefuncs.physics.link import (
+    cn0,
+    dish_gain,
+    eirp,
+    fspl,
+    g_over_t,
+    saleh_amplitude,
+    saleh_phase,
+)
 
 K_BOLTZMANN_SI = 1.380649e-23   # exact, SI Brochure 9th ed. (2019), Table 1 [J/K]
 C_LIGHT = 299792458.0           # exact, SI Brochure 9th ed. (2019), Table 1 [m/s]
@@ -160,14 +168,14 @@ def test_eirp_array():
 
 def test_gt_definition():
     # G/T = G - 10 log10(T / 1 K): 35.6824 dBi with 150 K.
-    assert_allclose(gt(35.6824, 150.0), 35.6824 - 10 * math.log10(150.0), rtol=1e-13)
-    assert gt(40.0, 1.0) == 40.0           # T = 1 K leaves the gain unchanged
-    assert_allclose(gt(40.0, 100.0), 20.0, rtol=1e-15)
+    assert_allclose(g_over_t(35.6824, 150.0), 35.6824 - 10 * math.log10(150.0), rtol=1e-13)
+    assert g_over_t(40.0, 1.0) == 40.0           # T = 1 K leaves the gain unchanged
+    assert_allclose(g_over_t(40.0, 100.0), 20.0, rtol=1e-15)
 
 
 @pytest.mark.parametrize("t", [0.0, -10.0, np.nan])
 def test_gt_out_of_domain_is_nan(t):
-    assert np.isnan(gt(40.0, t))
+    assert np.isnan(g_over_t(40.0, t))
 
 
 # ------------------------------------------------------------------------ C/N0
@@ -296,17 +304,17 @@ def test_saleh_array_marks_only_bad_elements():
 
 # -------------------------------------------------------------------- catalogue
 
-NAMES = ("TUBE_FSPL", "TUBE_DISH_GAIN", "TUBE_EIRP", "TUBE_GT", "TUBE_CN0",
+NAMES = ("TUBE_FSPL", "TUBE_DISH_GAIN", "TUBE_EIRP", "TUBE_G_OVER_T", "TUBE_CN0",
          "TUBE_SALEH_AMPLITUDE", "TUBE_SALEH_PHASE")
 
 
 def test_catalogue_db_results_and_units():
-    for name in ("TUBE_FSPL", "TUBE_DISH_GAIN", "TUBE_EIRP", "TUBE_GT", "TUBE_CN0"):
+    for name in ("TUBE_FSPL", "TUBE_DISH_GAIN", "TUBE_EIRP", "TUBE_G_OVER_T", "TUBE_CN0"):
         assert CATALOGUE[name].result_unit == ""
     assert "dBi" in CATALOGUE["TUBE_DISH_GAIN"].help
     assert "dB-Hz" in CATALOGUE["TUBE_CN0"].help
     assert "dBW" in CATALOGUE["TUBE_EIRP"].help
-    assert "dB/K" in CATALOGUE["TUBE_GT"].help
+    assert "dB/K" in CATALOGUE["TUBE_G_OVER_T"].help
     phase = CATALOGUE["TUBE_SALEH_PHASE"]
     assert phase.result_unit == "rad" and "deg" in phase.result_units
     assert CATALOGUE["TUBE_SALEH_AMPLITUDE"].result_unit == ""

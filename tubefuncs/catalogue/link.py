@@ -56,7 +56,7 @@ FUNCTIONS = [
         references=(REF_PRACTICE,), category=CATEGORY, caution=CAUTION_RF,
     ),
     Function(
-        name="TUBE_GT", func=link.gt,
+        name="TUBE_G_OVER_T", func=link.g_over_t,
         params=(Param("antenna_gain_dbi", "Receive antenna gain in dBi.", domain=FINITE),
                 Param("system_temperature", "System noise temperature.", unit="K",
                       domain=POSITIVE)),

@@ -37,7 +37,7 @@ __all__ = [
     "TUBE_GAMMA",
     "TUBE_GAP_COUPLING",
     "TUBE_GAP_VOLTAGE",
-    "TUBE_GT",
+    "TUBE_G_OVER_T",
     "TUBE_HARMONIC_CURRENT",
     "TUBE_HELP",
     "TUBE_LOADED_Q",
@@ -545,9 +545,9 @@ def TUBE_EIRP(power, antenna_gain_dbi, feed_loss_db=None):
         doc='Receive antenna gain in dBi. Number. A range gives a range.')
 @xw.arg("system_temperature", ndim=2, err_to_str=True,
         doc='System noise temperature. Number in K, or text with a unit. A range gives a range.')
-def TUBE_GT(antenna_gain_dbi, system_temperature):
+def TUBE_G_OVER_T(antenna_gain_dbi, system_temperature):
     'Receiver figure of merit G/T in dB/K = gain (dBi) - 10 log10(T_sys/1 K), both referred to the same plane.'
-    return _call("TUBE_GT", (antenna_gain_dbi, system_temperature))
+    return _call("TUBE_G_OVER_T", (antenna_gain_dbi, system_temperature))
 
 
 @xw.func(category="tubefuncs")

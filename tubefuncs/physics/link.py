@@ -161,7 +161,7 @@ def eirp(power, antenna_gain_dbi, feed_loss_db=0.0):
     return np.where((p > 0) & (lf >= 0), level, np.nan)[()]
 
 
-def gt(antenna_gain_dbi, system_temperature):
+def g_over_t(antenna_gain_dbi, system_temperature):
     """Figure of merit G/T of a receiving station.
 
     Parameters
