@@ -228,13 +228,15 @@ def watts_to_dbw(power):
 
 
 def dbm_to_watts(level):
-    """Power in W of a level in dBm: 1 mW * 10^(L/10). [W]"""
-    return (1e-3 * np.power(10.0, np.asarray(level, dtype=float) / 10.0))[()]
+    """Power in W of a level in dBm: 1 mW * 10^(L/10). [W]  inf beyond float range."""
+    with np.errstate(over="ignore"):
+        return (1e-3 * np.power(10.0, np.asarray(level, dtype=float) / 10.0))[()]
 
 
 def dbw_to_watts(level):
-    """Power in W of a level in dBW: 1 W * 10^(L/10). [W]"""
-    return np.power(10.0, np.asarray(level, dtype=float) / 10.0)[()]
+    """Power in W of a level in dBW: 1 W * 10^(L/10). [W]  inf beyond float range."""
+    with np.errstate(over="ignore"):
+        return np.power(10.0, np.asarray(level, dtype=float) / 10.0)[()]
 
 
 def power_ratio_to_db(ratio):

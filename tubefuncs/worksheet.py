@@ -144,7 +144,10 @@ class _Call:
             return self.error(param, f"must be a number or text (got {type(raw).__name__})")
         if not param.domain.ok_scalar(value):
             unit = param.unit
-            return self.error(param, f"must be {param.domain.describe(unit)} (got "
+            allowed = param.domain.describe(unit)
+            if not math.isfinite(value):
+                allowed = "a finite number" + ("" if allowed == "finite" else f" ({allowed})")
+            return self.error(param, f"must be {allowed} (got "
                               f"{show_value(value)}{' ' + unit if unit else ''})", NUM)
         return value
 
