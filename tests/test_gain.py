@@ -8,12 +8,15 @@ Physical constants come from scipy.constants (CODATA).
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 from scipy import constants as sc
 from scipy import special
 
+from tubefuncs.errors import TubeInputError
 from tubefuncs.physics import gain
 from tubefuncs.physics.gain import (
     bandwidth,
@@ -22,6 +25,7 @@ from tubefuncs.physics.gain import (
     small_signal_response,
     validate_cavities,
 )
+from tubefuncs.worksheet import call
 
 NAN = np.nan
 REST_V = sc.m_e * sc.c**2 / sc.e  # electron rest energy / e [V]
@@ -525,7 +529,6 @@ def test_worksheet_call_with_units_and_empty_cells():
     # Through the worksheet layer: text with units, None for empty Qext cells, a column
     # of frequencies spilling a column of results; a bad table is an error naming the rule.
     from tubefuncs import worksheet
-    from tubefuncs.errors import TubeInputError
 
     rows = synchronous(3).tolist()
     rows[1][4] = None
@@ -544,3 +547,44 @@ def test_worksheet_call_with_units_and_empty_cells():
     rows[1], rows[2] = rows[2], rows[1]
     with pytest.raises(TubeInputError, match="must be downstream of row"):
         worksheet.call("TUBE_SMALL_SIGNAL_GAIN", F0, 100e3, 30, 5e-3, 7e-3, rows)
+
+
+# --- TUBE_SMALL_SIGNAL_BANDWIDTH -------------------------------------------------
+
+def _single_pole_table(f0=3e9, q_out=100.0):
+    # Input cavity nearly flat (Q_L = 2, so V1 varies by < 1e-4 over the band),
+    # output cavity Q_L = q_out (Q0 = 1e9: no wall loss).
+    return np.array([[0.0, f0, 100.0, 1e9, 2.0, 2e-3],
+                     [0.03, f0, 100.0, 1e9, q_out, 2e-3]])
+
+
+@pytest.mark.parametrize("drop_db", [1.0, 10 * math.log10(2.0), 6.0])
+def test_bandwidth_of_a_single_output_pole(drop_db):
+    # With a flat drive and a nearly ballistic beam (1 uA) the output power
+    # follows the output resonance alone: P ~ 1/(1 + Q_L^2 d^2), d = f/f0 - f0/f
+    # (parallel resonator, Pozar, Microwave Engineering, Sec. 6.1).  It is
+    # drop_db below the peak where Q_L^2 d^2 = 10^(drop/10) - 1, i.e. at
+    # d = +-D/Q_L with D = sqrt(10^(drop/10) - 1); the two roots of
+    # f/f0 - f0/f = +-D/Q_L are f0 (+-D/Q_L + sqrt((D/Q_L)^2 + 4))/2, whose
+    # difference is exactly f0 D / Q_L (3 dB: the familiar f0/Q_L).
+    # Tolerance 1e-3: the transadmittance grows as omega (ballistic limit,
+    # Webster 1939), a 0.02 dB tilt across the band that shifts each edge by
+    # a few parts in 1e4.
+    f0, q_out = 3e9, 100.0
+    expected = f0 * math.sqrt(10 ** (drop_db / 10) - 1) / q_out
+    got = gain.small_signal_bandwidth(10e3, 1e-6, 1e-3, 2e-3, _single_pole_table(f0, q_out),
+                                      drop_db)
+    assert got == pytest.approx(expected, rel=1e-3)
+
+
+def test_bandwidth_worksheet_call_broadcasts_and_flags_bad_tables():
+    table = _single_pole_table().tolist()
+    out = call("TUBE_SMALL_SIGNAL_BANDWIDTH", "10 kV", [[1e-6], [2e-6]], "1 mm", "2 mm",
+               table, None, "MHz")
+    assert out.shape == (2, 1)
+    assert out[0, 0] == pytest.approx(30 * math.sqrt(10 ** 0.1 - 1), rel=1e-3)
+    bad = [table[1], table[0]]  # output cavity first: out of order
+    with pytest.raises(TubeInputError, match="must be downstream of row"):
+        call("TUBE_SMALL_SIGNAL_BANDWIDTH", "10 kV", 1e-6, "1 mm", "2 mm", bad)
+    with pytest.raises(TubeInputError, match="drop_db must be > 0"):
+        call("TUBE_SMALL_SIGNAL_BANDWIDTH", "10 kV", 1e-6, "1 mm", "2 mm", table, 0)

@@ -118,3 +118,42 @@ FUNCTIONS = [
         result_units=("deg", "rad"),
     ),
 ]
+
+
+def _spacing_ok_at_centre(voltage, current, beam_radius, tunnel_radius, cavities):
+    """The plasma-wavelength spacing check at the mean cavity frequency."""
+    table = np.asarray(cavities, dtype=float)
+    if table.ndim != 2 or table.shape[1] != gain.N_COLUMNS or gain.table_problems(table):
+        return np.bool_(True)  # the table checks report it
+    centre = float(np.nanmean(table[:, gain.F0]))
+    return gain.cavity_spacing_ok(centre, voltage, current, beam_radius, tunnel_radius, table)
+
+
+BANDWIDTH_PARAMS = PARAMS[1:] + (
+    Param("drop_db", "Drop below the peak gain that bounds the band (dB); 1 dB by default.",
+          default=1.0, domain=POSITIVE),
+)
+BANDWIDTH_CHECKS = tuple(c for c in CHECKS if "frequency" not in c.args) + (
+    Check(("voltage", "current", "beam_radius", "tunnel_radius", "cavities"),
+          _spacing_ok_at_centre,
+          "cavities: each cavity must lie within half a reduced plasma wavelength "
+          "(u0/(2 f_q)) of the previous one"),
+)
+
+FUNCTIONS.append(
+    Function(
+        name="TUBE_SMALL_SIGNAL_BANDWIDTH", func=gain.small_signal_bandwidth,
+        params=BANDWIDTH_PARAMS, result_unit="Hz", result_units=("MHz", "kHz", "GHz"),
+        help="Width of the band around the small-signal gain peak in which the gain stays "
+             "within drop_db (1 dB by default) of the peak; same model and cavity table as "
+             "TUBE_SMALL_SIGNAL_GAIN.",
+        references=(REF_CARYOTAKIS, REF_POZAR),
+        category=CATEGORY, checks=BANDWIDTH_CHECKS,
+        invalid_result="the band reaches the edge of the sweep (8 cavity bandwidths beyond "
+                       "the outermost cavities) or the small-signal model does not apply",
+        notes="The gain is swept over the cavity frequencies widened by eight times the "
+              "widest cavity bandwidth f0/Q_L on each side (4001 points), and each band edge "
+              "is refined on a finer sweep. A second lobe separated from the peak by a "
+              "deeper dip does not count. " + MODEL_NOTES,
+    )
+)

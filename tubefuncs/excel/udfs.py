@@ -5,7 +5,7 @@ GENERATED FILE: do not edit.  Regenerate after any catalogue change with
     python -m tubefuncs.excel.generate
 
 then click Import Functions on Excel's xlwings tab (see addin/README.md).
-42 functions, generated from tubefuncs.catalogue.  This is the only module
+43 functions, generated from tubefuncs.catalogue.  This is the only module
 of tubefuncs that imports xlwings.  Every argument is declared ndim=2 (a cell
 arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
@@ -53,6 +53,7 @@ __all__ = [
     "TUBE_SALEH_AMPLITUDE",
     "TUBE_SALEH_PHASE",
     "TUBE_SKIN_DEPTH",
+    "TUBE_SMALL_SIGNAL_BANDWIDTH",
     "TUBE_SMALL_SIGNAL_GAIN",
     "TUBE_SMALL_SIGNAL_PHASE",
     "TUBE_SURFACE_RESISTANCE",
@@ -436,6 +437,26 @@ def TUBE_SMALL_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radi
 def TUBE_SMALL_SIGNAL_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
     'Small-signal phase of the output-gap voltage relative to the drive, in degrees (-180 to 180], transit delay included; same model and arguments as TUBE_SMALL_SIGNAL_GAIN.'
     return _call("TUBE_SMALL_SIGNAL_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drop_db", ndim=2, err_to_str=True,
+        doc='Drop below the peak gain that bounds the band (dB); 1 dB by default. Number. A range gives a range. Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default Hz). Optional. E.g. "MHz", "kHz", "GHz".')
+def TUBE_SMALL_SIGNAL_BANDWIDTH(voltage, current, beam_radius, tunnel_radius, cavities, drop_db=None, unit=None):
+    'Width of the band around the small-signal gain peak in which the gain stays within drop_db (1 dB by default) of the peak; same model and cavity table as TUBE_SMALL_SIGNAL_GAIN.'
+    return _call("TUBE_SMALL_SIGNAL_BANDWIDTH", (voltage, current, beam_radius, tunnel_radius, cavities, drop_db, unit))
 
 
 @xw.func(category="tubefuncs")
