@@ -122,6 +122,10 @@ def plasma_freq(current, voltage, beam_radius):
     return _masked((i >= 0) & (v > 0) & (b > 0), fp)
 
 
+#: Below this many points the scaled scipy Bessel functions are used throughout.
+_SERIES_MIN_SIZE = 64
+
+
 def _boundary_terms(x, ratio):
     """Right-hand side N/D of the eigenvalue equation (see `_reduction`), normalised.
 
@@ -132,6 +136,12 @@ def _boundary_terms(x, ratio):
     exponentially scaled functions, which stay finite for any x and y.
     """
     y = x * ratio
+    if x.size < _SERIES_MIN_SIZE:
+        # few points: scipy's functions cost less than the series' Python loop
+        n, d = _terms_scaled(x, ratio)
+        d = np.maximum(d, 0.0)
+        total = n + d
+        return n / total, d / total
     small = y <= _SERIES_MAX
     if small.all():
         n, d = _terms_series(x, y)
