@@ -336,3 +336,20 @@ def test_catalogue_units_and_caution():
         assert CATALOGUE[name].result_unit == ""
     for name in CAVITY_NAMES:
         assert len(CATALOGUE[name].help) <= 255
+
+
+# --- output-circuit efficiency and coupling factor ----------------------------
+
+def test_circuit_efficiency_and_coupling_beta():
+    # Power divides by loss rates 1/Q0 (walls) and 1/Qext (load): the load gets
+    # (1/Qext)/(1/Q0 + 1/Qext) = Q0/(Q0 + Qext) (energy balance, Jackson Sec. 8.8).
+    # Worked by hand: Q0 = 10000, Qext = 5000 -> eta_c = 2/3, beta_c = 2.
+    from tubefuncs.physics.cavity import circuit_efficiency, coupling_beta
+    assert circuit_efficiency(10000.0, 5000.0) == pytest.approx(2.0 / 3.0, rel=1e-15)
+    assert coupling_beta(10000.0, 5000.0) == pytest.approx(2.0, rel=1e-15)
+    # Critical coupling (Qext = Q0) sends half the power to the load.
+    assert circuit_efficiency(3000.0, 3000.0) == pytest.approx(0.5, rel=1e-15)
+    # A heavily loaded output cavity (Q0 = 5000, Qext = 250): 5000/5250.
+    np.testing.assert_allclose(circuit_efficiency(np.array([5000.0, 5000.0]), [250.0, 1e12]),
+                               [5000.0 / 5250.0, 5000.0 / (5000.0 + 1e12)], rtol=1e-15)
+    assert np.isnan(circuit_efficiency(0.0, 100.0)) and np.isnan(coupling_beta(100.0, -1.0))

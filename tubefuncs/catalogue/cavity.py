@@ -84,6 +84,33 @@ FUNCTIONS = [
         references=(REF_JACKSON,), category=CATEGORY,
     ),
     Function(
+        name="TUBE_CIRCUIT_EFFICIENCY", func=cavity.circuit_efficiency,
+        params=(
+            Param("q0", "Unloaded quality factor Q0 of the output cavity.", unit="",
+                  domain=POSITIVE),
+            Param("qext", "External quality factor of its coupling to the load.", unit="",
+                  domain=POSITIVE),
+        ),
+        result_unit="",
+        help="Output-circuit efficiency Q0/(Q0 + Qext) = QL/Qext: the share of the power the "
+             "beam gives the output cavity that reaches the load (the rest heats the walls).",
+        references=(REF_JACKSON,), category=CATEGORY,
+    ),
+    Function(
+        name="TUBE_COUPLING_BETA", func=cavity.coupling_beta,
+        params=(
+            Param("q0", "Unloaded quality factor Q0.", unit="", domain=POSITIVE),
+            Param("qext", "External quality factor of the coupling.", unit="",
+                  domain=POSITIVE),
+        ),
+        result_unit="",
+        help="Coupling factor Q0/Qext of a cavity to its line (1 = critical coupling; the "
+             "reflection at resonance is |1 - beta|/(1 + beta)).",
+        references=("D. M. Pozar, Microwave Engineering, 4th ed., Wiley, 2012, Sec. 6.7 "
+                    "(coupling of resonators; from memory for the section).",),
+        category=CATEGORY,
+    ),
+    Function(
         name="TUBE_GAP_VOLTAGE", func=cavity.gap_voltage,
         params=(
             Param("power", "RF power dissipated in the loaded cavity (walls plus load).",

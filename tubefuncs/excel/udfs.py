@@ -5,7 +5,7 @@ GENERATED FILE: do not edit.  Regenerate after any catalogue change with
     python -m tubefuncs.excel.generate
 
 then click Import Functions on Excel's xlwings tab (see addin/README.md).
-43 functions, generated from tubefuncs.catalogue.  This is the only module
+45 functions, generated from tubefuncs.catalogue.  This is the only module
 of tubefuncs that imports xlwings.  Every argument is declared ndim=2 (a cell
 arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
@@ -27,10 +27,12 @@ __all__ = [
     "TUBE_BRILLOUIN_FIELD",
     "TUBE_BUNCHING_PARAM",
     "TUBE_CHILD_LANGMUIR",
+    "TUBE_CIRCUIT_EFFICIENCY",
     "TUBE_CN0",
     "TUBE_COLLECTOR_POWER",
     "TUBE_CONVERT",
     "TUBE_COOLANT_FLOW",
+    "TUBE_COUPLING_BETA",
     "TUBE_DISH_GAIN",
     "TUBE_EIRP",
     "TUBE_FSPL",
@@ -383,6 +385,26 @@ def TUBE_PILLBOX_R_OVER_Q(radius, length, voltage=None, convention=None, unit=No
 def TUBE_LOADED_Q(q0, qext):
     'Loaded quality factor from 1/QL = 1/Q0 + 1/Qext (beam loading not included).'
     return _call("TUBE_LOADED_Q", (q0, qext))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("q0", ndim=2, err_to_str=True,
+        doc='Unloaded quality factor Q0 of the output cavity. Number. A range gives a range.')
+@xw.arg("qext", ndim=2, err_to_str=True,
+        doc='External quality factor of its coupling to the load. Number. A range gives a range.')
+def TUBE_CIRCUIT_EFFICIENCY(q0, qext):
+    'Output-circuit efficiency Q0/(Q0 + Qext) = QL/Qext: the share of the power the beam gives the output cavity that reaches the load (the rest heats the walls).'
+    return _call("TUBE_CIRCUIT_EFFICIENCY", (q0, qext))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("q0", ndim=2, err_to_str=True,
+        doc='Unloaded quality factor Q0. Number. A range gives a range.')
+@xw.arg("qext", ndim=2, err_to_str=True,
+        doc='External quality factor of the coupling. Number. A range gives a range.')
+def TUBE_COUPLING_BETA(q0, qext):
+    'Coupling factor Q0/Qext of a cavity to its line (1 = critical coupling; the reflection at resonance is |1 - beta|/(1 + beta)).'
+    return _call("TUBE_COUPLING_BETA", (q0, qext))
 
 
 @xw.func(category="tubefuncs")

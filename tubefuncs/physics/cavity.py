@@ -27,6 +27,9 @@ References
     J0^2 r) [from memory for the table and equation numbers].
 [4] IEC 60028:1925, International standard of resistance for copper
     (annealed copper, 1/58 ohm mm^2/m at 20 degC).
+[5] D. M. Pozar, *Microwave Engineering*, 4th ed., Wiley, 2012, Sec. 6.7
+    (coupling of resonators, coupling coefficient g = Q0/Qe) [from memory
+    for the section number].
 """
 
 from __future__ import annotations
@@ -320,6 +323,74 @@ def loaded_q(q0, qext):
     with np.errstate(divide="ignore", invalid="ignore"):
         ql = 1.0 / (1.0 / q0 + 1.0 / qe)
     return _nan_where_invalid(ql, _domain_ok(positive=(q0, qe)))
+
+
+def circuit_efficiency(q0, qext):
+    """Output-circuit efficiency: the share of cavity power that reaches the load.
+
+    Parameters
+    ----------
+    q0 : numeric
+        Unloaded (wall-loss) quality factor Q0, > 0. [1]
+    qext : numeric
+        External quality factor Qext of the coupling to the load, > 0. [1]
+
+    Returns
+    -------
+    numeric
+        eta_c = Q_L/Qext = Q0/(Q0 + Qext). [1]  NaN where q0 <= 0 or qext <= 0.
+
+    Notes
+    -----
+    The power the beam gives an output cavity divides between wall loss
+    (rate omega W/Q0) and the external load (rate omega W/Qext) in proportion
+    to the rates, so the load receives (1/Qext)/(1/Q0 + 1/Qext) of it.  A
+    klystron's RF output is eta_c times the power the beam delivers to the
+    output gap.  Beam loading of the output gap is not included.
+
+    References
+    ----------
+    [1], Sec. 8.8 (Q as stored energy over loss per radian) [from memory];
+    common practice for the division of power by loss rates.
+    """
+    q0 = np.asarray(q0, dtype=float)
+    qe = np.asarray(qext, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        eta = q0 / (q0 + qe)
+    return _nan_where_invalid(eta, _domain_ok(positive=(q0, qe)))
+
+
+def coupling_beta(q0, qext):
+    """Coupling factor beta_c = Q0/Qext of a cavity to its line.
+
+    Parameters
+    ----------
+    q0 : numeric
+        Unloaded quality factor Q0, > 0. [1]
+    qext : numeric
+        External quality factor Qext, > 0. [1]
+
+    Returns
+    -------
+    numeric
+        beta_c = Q0/Qext: < 1 under-coupled, 1 critically coupled, > 1
+        over-coupled. [1]  NaN where q0 <= 0 or qext <= 0.
+
+    Notes
+    -----
+    At resonance the cavity seen from the line reflects
+    |Gamma| = |1 - beta_c|/(1 + beta_c) of the incident wave (VSWR beta_c or
+    1/beta_c) [5].
+
+    References
+    ----------
+    [5] of the module.
+    """
+    q0 = np.asarray(q0, dtype=float)
+    qe = np.asarray(qext, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        beta_c = q0 / qe
+    return _nan_where_invalid(beta_c, _domain_ok(positive=(q0, qe)))
 
 
 def gap_voltage(power, r_over_q, q_loaded, convention="circuit"):
