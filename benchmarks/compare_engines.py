@@ -27,7 +27,7 @@ warnings.simplefilter("ignore")
 def ours(path, cells):
     from tubefuncs.headless import recalculate
 
-    r = recalculate(path)
+    r = recalculate(path, engine="general")
     return [r.value(sheet, coord) for sheet, coord in cells]
 
 

@@ -43,6 +43,13 @@ def _limits_options(parser: argparse.ArgumentParser) -> None:
                        help="refuse formulas reading larger ranges (default %(default)d)")
 
 
+def _engine_option(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("--engine", choices=("fast", "general"), default="fast",
+                        help="fast: evaluate same-shape formula cells together as vectors, "
+                             "the rest cell by cell (default); general: every cell on its "
+                             "own. Both give the same values.")
+
+
 def _limits(args):
     from dataclasses import replace
 
@@ -67,6 +74,7 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", required=True, metavar="OUT",
                    help="where to write the recalculated copy")
     _limits_options(p)
+    _engine_option(p)
 
     p = sub.add_parser("check", help="recalculate and compare with expected values")
     p.add_argument("book", metavar="BOOK")
@@ -80,12 +88,14 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--max-rows", type=int, default=50, metavar="N",
                    help="rows of the difference table to print, 0 for all (default %(default)d)")
     _limits_options(p)
+    _engine_option(p)
 
     p = sub.add_parser("snapshot", help="write the expected-values file of a workbook")
     p.add_argument("book", metavar="BOOK")
     p.add_argument("-o", "--output", metavar="FILE",
                    help="expected-values file (default: BOOK.expected.tsv beside BOOK)")
     _limits_options(p)
+    _engine_option(p)
 
     p = sub.add_parser("demo", help="recalculate the bundled RF-station budget and print it")
     p.add_argument("-o", "--output", default="tubefuncs-demo-out.xlsx", metavar="OUT",
@@ -114,7 +124,8 @@ def cmd_recalc(args) -> int:
     from .headless import recalculate, write_recalculated
 
     with _progress(os.path.basename(args.book)) as progress:
-        recalc = recalculate(args.book, limits=_limits(args), progress=progress)
+        recalc = recalculate(args.book, limits=_limits(args), progress=progress,
+                             engine=args.engine)
         progress.phase("writing")
         out = write_recalculated(recalc, args.output)
     errors = sum(1 for v in recalc.values.values() if _is_error(v))
@@ -136,7 +147,7 @@ def cmd_check(args) -> int:
     with _progress(os.path.basename(args.book)) as progress:
         recalc, result, source = check(args.book, expected=args.expected, rtol=args.rtol,
                                        atol=args.atol, limits=_limits(args), progress=progress,
-                                       fallback=snapshot_path(args.book))
+                                       fallback=snapshot_path(args.book), engine=args.engine)
     _say_name_errors(recalc, sys.stdout)
     if result.ok:
         print(f"OK: {result.compared} formula cells of {args.book} match {source} "
@@ -152,7 +163,8 @@ def cmd_snapshot(args) -> int:
     from .headless import recalculate, write_snapshot
 
     with _progress(os.path.basename(args.book)) as progress:
-        recalc = recalculate(args.book, limits=_limits(args), progress=progress)
+        recalc = recalculate(args.book, limits=_limits(args), progress=progress,
+                             engine=args.engine)
     path = write_snapshot(recalc, args.output)
     print(f"wrote {len(recalc.values)} expected values of {args.book} to {path}")
     _say_name_errors(recalc, sys.stdout)

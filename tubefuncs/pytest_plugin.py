@@ -12,7 +12,9 @@ snapshot``) when there is one, else the values a spreadsheet application cached
 in the file.  A failure shows the table of differences; a workbook that cannot
 be used fails with its one-line reason.
 
-Optional settings: ``tubefuncs_rtol``, ``tubefuncs_atol`` (tolerances).
+Optional settings: ``tubefuncs_rtol``, ``tubefuncs_atol`` (tolerances),
+``tubefuncs_engine`` (``fast``, the default, or ``general``: see
+:func:`tubefuncs.headless.recalculate`).
 Matching workbooks are collected when pytest runs without explicit paths, and
 whenever a collected folder contains them (``pytest workbooks/``).
 
@@ -35,6 +37,8 @@ def pytest_addoption(parser):
                   help="glob patterns (relative to the rootdir) of workbooks to regress")
     parser.addini("tubefuncs_rtol", default="", help="relative tolerance for workbook numbers")
     parser.addini("tubefuncs_atol", default="", help="absolute tolerance for workbook numbers")
+    parser.addini("tubefuncs_engine", default="fast",
+                  help="headless engine: fast (same-shape cells as vectors) or general")
 
 
 def _patterns(config) -> list:
@@ -103,15 +107,20 @@ class WorkbookFile(pytest.File):
         """``(Recalculation, Comparison, source)``, computed on first use."""
         if not hasattr(self, "_outcome"):
             from tubefuncs.headless import DEFAULT_ATOL, DEFAULT_RTOL, check, snapshot_path
+            from tubefuncs.headless.engine import ENGINES
             from tubefuncs.headless.problems import WorkbookError
 
             ini = self.config.getini
             rtol = float(ini("tubefuncs_rtol") or DEFAULT_RTOL)
             atol = float(ini("tubefuncs_atol") or DEFAULT_ATOL)
+            engine = (ini("tubefuncs_engine") or "fast").strip()
             snap = snapshot_path(self.path)
             try:
+                if engine not in ENGINES:
+                    raise WorkbookError(f"tubefuncs_engine must be one of {', '.join(ENGINES)} "
+                                        f"(got {engine!r})")
                 self._outcome = check(self.path, expected=snap if os.path.exists(snap) else None,
-                                      rtol=rtol, atol=atol)
+                                      rtol=rtol, atol=atol, engine=engine)
             except WorkbookError as exc:
                 self._outcome = exc
         return self._outcome

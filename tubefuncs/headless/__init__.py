@@ -8,7 +8,10 @@ macros, never modifies its input and writes outputs atomically.
 Pipeline (one module each): :mod:`.limits` (inspect the file) ->
 :mod:`.loader` (read cells) -> :mod:`.formula` (compile) -> :mod:`.graph`
 (order) -> :mod:`.evaluate` (run) -> :mod:`.writer` / :mod:`.snapshot` /
-:mod:`.compare`.
+:mod:`.compare`.  The fast path (:mod:`.vector`, the default of
+:func:`recalculate`) evaluates same-shape formula cells together as numpy
+vectors and hands the rest to these stages; ``engine="general"`` forces them
+for every cell.
 """
 
 from __future__ import annotations
@@ -28,8 +31,10 @@ __all__ = [
 
 
 def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
-          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None):
+          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast"):
     """Recalculate ``path`` and compare: ``(Recalculation, Comparison, source)``.
+
+    ``engine``: as for :func:`recalculate` (``"fast"`` or ``"general"``).
 
     ``expected``: an expected-values file.  Without it, the values a
     spreadsheet application cached in the workbook; when it has none, the
@@ -38,7 +43,7 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
-    recalc = recalculate(path, limits=limits, progress=progress)
+    recalc = recalculate(path, limits=limits, progress=progress, engine=engine)
     if expected is None and not recalc.book.has_cached_values and recalc.values:
         if fallback is not None and os.path.exists(fallback):
             expected = fallback

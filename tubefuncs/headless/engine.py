@@ -36,6 +36,8 @@ class Recalculation:
     name_errors: list                # [(key, message)]: every #NAME? met
     formula_cells: int
     timings: dict = field(default_factory=dict)
+    engine: str = "general"          # which path computed it: "fast" or "general"
+    stats: dict = field(default_factory=dict)   # the fast path's counts (groups, cells...)
 
     def key(self, sheet: str, coordinate: str):
         s = self.book.sheet(sheet)
@@ -243,9 +245,24 @@ class Plan:
 
 
 
+ENGINES = ("fast", "general")
+
+
 def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
-                evaluator=None) -> Recalculation:
-    """Load, compile and evaluate every formula of a workbook (the file is only read)."""
+                evaluator=None, engine: str = "fast") -> Recalculation:
+    """Load, compile and evaluate every formula of a workbook (the file is only read).
+
+    ``engine``: ``"fast"`` (default) evaluates same-shape formula cells together
+    as numpy vectors (:mod:`tubefuncs.headless.vector`) and hands everything
+    else to the general engine; ``"general"`` evaluates every cell on its own.
+    Both give the same values.  An explicit ``evaluator`` runs the general plan.
+    """
+    if engine not in ENGINES:
+        raise ValueError(f"engine must be one of {', '.join(ENGINES)} (got {engine!r})")
+    if engine == "fast" and evaluator is None:  # --- fast path hook (issue 6)
+        from .vector import recalculate_fast
+
+        return recalculate_fast(path, limits=limits, progress=progress)
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")

@@ -114,12 +114,17 @@ def _cached_value(element, shared_strings):
     return text
 
 
-def load_book(path, limits: Limits = DEFAULT_LIMITS) -> Book:
-    """Inspect, then read, a workbook (``.xlsx``/``.xlsm``) into a :class:`Book`."""
+def load_book(path, limits: Limits = DEFAULT_LIMITS, sheet_reader=None) -> Book:
+    """Inspect, then read, a workbook (``.xlsx``/``.xlsm``) into a :class:`Book`.
+
+    ``sheet_reader``: replaces :func:`_read_sheet` (same call and result); the
+    fast path's scanner (:func:`tubefuncs.headless.vector.reader.read_sheet`)
+    plugs in here.
+    """
     name = os.fspath(path)
     inspect_file(name, limits)
     try:
-        return _read(name, limits)
+        return _read(name, limits, sheet_reader or _read_sheet)
     except WorkbookError:
         raise
     except DefusedXmlException as exc:
@@ -136,7 +141,7 @@ def load_book(path, limits: Limits = DEFAULT_LIMITS) -> Book:
         raise WorkbookError(f"{name}: corrupt or unsupported workbook ({detail})") from None
 
 
-def _read(name: str, limits: Limits) -> Book:
+def _read(name: str, limits: Limits, sheet_reader) -> Book:
     reader = ExcelReader(name, read_only=True, keep_vba=False, data_only=False,
                          keep_links=False)
     try:
@@ -154,8 +159,8 @@ def _read(name: str, limits: Limits) -> Book:
                     f"{rel.target} is missing (corrupt workbook)")
             sheet = Sheet(entry.name, len(sheets))
             with reader.archive.open(rel.target) as src:
-                cells_left = _read_sheet(name, sheet, src, reader.shared_strings, cells_left,
-                                         limits)
+                cells_left = sheet_reader(name, sheet, src, reader.shared_strings, cells_left,
+                                          limits)
             sheets.append(sheet)
         if not sheets:
             raise WorkbookError(f"{name}: the workbook has no worksheets")

@@ -72,6 +72,14 @@ def write_recalculated(recalc, out_path) -> str:
     if os.path.exists(out_path) and _same_file(src, out_path):
         raise WorkbookError(f"{out_path}: refusing to overwrite the input workbook; "
                             f"choose another output path")
+    if getattr(recalc, "engine", "general") == "fast":   # --- fast path hook (issue 6)
+        from .vector.writer import write_fast
+
+        try:
+            if write_fast(recalc, out_path) is not None:
+                return out_path
+        except OSError as exc:
+            raise WorkbookError(f"{out_path}: cannot write ({exc.strerror or exc})") from None
     keep_vba = out_path.lower().endswith(".xlsm")
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")

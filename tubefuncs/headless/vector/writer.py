@@ -1,0 +1,262 @@
+"""Writing the recalculated copy without rebuilding the workbook.
+
+The general writer reopens the whole workbook with openpyxl and saves it
+again.  Here every part of the archive is copied as it is, except
+
+- the worksheet parts, in which each cell that has a computed value is
+  rewritten in place: its formula and cached value go, the value comes in
+  (number, boolean, error value, or inline text), its address, style and
+  phonetic flag stay;
+- the calculation chain (``xl/calcChain.xml``), which lists formula cells and
+  would no longer match: it is dropped, with its relationship and content
+  type.
+
+Formatting, names, charts, images and everything else are kept byte for byte
+(more than the openpyxl writer keeps).  The output is written to a temporary
+file beside the destination and moved into place, like every output.
+
+Only a copy of the same kind as the input is written this way (``.xlsx`` from
+``.xlsx``, ``.xlsm`` with its VBA from ``.xlsm``); a change of kind, a sheet
+laid out in a way the cell pattern does not recognise, or a text that XML
+cannot hold, and :func:`write_fast` returns ``None``: the openpyxl writer does
+the job instead.
+"""
+
+from __future__ import annotations
+
+import itertools
+import os
+import re
+import zipfile
+from collections import defaultdict
+
+from .. import values as V
+from ..writer import _remove, _temp_beside
+
+CHUNK = 4 * 1024 * 1024
+_ILLEGAL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
+_DROP_ATTRS = re.compile(rb"\s(?:t|cm|vm)=\"[^\"]*\"")
+_CALC_REL = re.compile(rb"<Relationship\b[^>]*calcChain[^>]*/>")
+_CALC_TYPE = re.compile(rb"<Override\b[^>]*calcChain[^>]*/>")
+#: Error codes a workbook stores as error values (the same set as openpyxl's).
+_LEVEL = "compress_level" if "compress_level" in zipfile.ZipInfo.__slots__ else "_compresslevel"
+_ERROR_CODES = frozenset({"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A"})
+
+
+class _CannotWrite(Exception):
+    """Something only the openpyxl writer handles."""
+
+
+def _patterns(prefix: bytes):
+    p = re.escape(prefix)
+    return {
+        # a formula cell; groups: the whole element, its attributes, its address
+        "cell": re.compile(
+            rb"(<" + p + rb"c( r=\"([A-Z]{1,3}[0-9]{1,7})\"[^>/]*)>\s*"
+            rb"<" + p + rb"f\b[^>]*?(?:/>|>[^<]*</" + p + rb"f>)\s*"
+            rb"(?:<" + p + rb"v\b[^>]*?(?:/>|>[^<]*</" + p + rb"v>)\s*)?"
+            rb"(?:<" + p + rb"is>.*?</" + p + rb"is>\s*)?"
+            rb"</" + p + rb"c>)", re.S),
+        "formula_start": b"<" + prefix + b"f",
+        "cell_start": b"<" + prefix + b"c",
+        "data_open": re.compile(rb"<" + p + rb"sheetData\b[^>]*?(/?)>"),
+        "data_close": b"</" + prefix + b"sheetData>",
+        "row_close": b"</" + prefix + b"row>",
+        "prefix": prefix,
+    }
+
+
+_ROOT = re.compile(rb"<(?:([A-Za-z_][\w.-]*):)?worksheet\b")
+
+
+def _xml_text(text: str) -> str:
+    return (text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+            .replace("\r", "&#13;"))
+
+
+def _value_xml(prefix: str, value) -> bytes:
+    """The end of a cell element holding ``value``: from after its attributes."""
+    if type(value) is float:
+        return f"><{prefix}v>{value!r}</{prefix}v></{prefix}c>".encode("ascii")
+    if V.is_error(value):
+        code = str(value)
+        if code in _ERROR_CODES:
+            return f' t="e"><{prefix}v>{code}</{prefix}v></{prefix}c>'.encode("ascii")
+        value = code
+    if isinstance(value, bool):
+        return f' t="b"><{prefix}v>{1 if value else 0}</{prefix}v></{prefix}c>'.encode("ascii")
+    if isinstance(value, float):
+        return f"><{prefix}v>{value!r}</{prefix}v></{prefix}c>".encode("ascii")
+    if isinstance(value, str):
+        if _ILLEGAL.search(value):
+            raise _CannotWrite("text XML cannot hold")
+        return (f' t="inlineStr"><{prefix}is><{prefix}t xml:space="preserve">'
+                f"{_xml_text(value)}</{prefix}t></{prefix}is></{prefix}c>").encode()
+    raise _CannotWrite(f"value of type {type(value).__name__}")
+
+
+class _SheetRewriter:
+    """Rewrites one worksheet part, chunk by chunk, into an archive member."""
+
+    def __init__(self, values: dict):
+        self.values = values          # (row, col) -> value
+        self.table = None             # b"B5" -> the rest of its new cell element
+        self.pat = None
+
+    def _table(self) -> dict:
+        from openpyxl.utils.cell import get_column_letter
+
+        prefix = self.pat["prefix"].decode("ascii")
+        values = self.values
+        letters = {c: get_column_letter(c) for c in {c for _, c in values}}
+        keys = [f"{letters[c]}{r}".encode("ascii") for r, c in values]
+        if prefix:
+            ends = [_value_xml(prefix, v) for v in values.values()]
+        else:
+            ends = [b"><v>" + repr(v).encode("ascii") + b"</v></c>" if type(v) is float
+                    else _value_xml(prefix, v) for v in values.values()]
+        return dict(zip(keys, ends))
+
+    def rewrite(self, src, dst) -> None:
+        state = "head"
+        buf = b""
+        pending: list = []
+        recent = b""
+        while True:
+            chunk = src.read(CHUNK)
+            if not chunk:
+                break
+            if state == "after":
+                dst.write(chunk)
+                continue
+            if state == "head":
+                buf += chunk
+                if self.pat is None:
+                    root = _ROOT.search(buf)
+                    if root is None:
+                        if len(buf) > 256 * 1024:
+                            raise _CannotWrite("no worksheet root")
+                        continue
+                    self.pat = _patterns(root.group(1) + b":" if root.group(1) else b"")
+                    self.table = self._table()
+                m = self.pat["data_open"].search(buf)
+                if m is None:
+                    dst.write(buf[:-4096])
+                    buf = buf[-4096:]
+                    continue
+                dst.write(buf[:m.end()])
+                if m.group(1):
+                    state = "after"
+                    dst.write(buf[m.end():])
+                    buf = b""
+                    continue
+                state, chunk, buf, recent = "data", buf[m.end():], b"", b""
+            close = self.pat["data_close"]
+            window = recent + chunk
+            recent = window[-64:]
+            if window.find(close) >= 0:
+                data = b"".join(pending) + buf + chunk
+                end = data.find(close)
+                dst.write(self._region(data[:end]))
+                dst.write(data[end:])
+                state, buf, pending = "after", b"", []
+                continue
+            cut = chunk.rfind(self.pat["row_close"])
+            if cut < 0:
+                pending.append(buf)
+                buf = chunk
+                continue
+            cut += len(self.pat["row_close"])
+            dst.write(self._region(b"".join(pending) + buf + chunk[:cut]))
+            pending, buf = [], chunk[cut:]
+        if state != "after":
+            raise _CannotWrite("worksheet part without an end to its cells")
+        if self.table:
+            raise _CannotWrite("cells to write that the part does not hold")
+
+    def _region(self, region: bytes) -> bytes:
+        start = self.pat["cell_start"]
+        parts = self.pat["cell"].split(region)    # text, cell, attributes, address, text...
+        wholes, attrs, addresses = parts[1::4], parts[2::4], parts[3::4]
+        if len(wholes) != region.count(self.pat["formula_start"]):
+            raise _CannotWrite("formula cell layout")
+        pop = self.table.pop
+        ends = [pop(a, None) for a in addresses]
+        if not any(ends):
+            return region
+        drop = _DROP_ATTRS.sub
+        cells = [whole if end is None else
+                 start + (drop(b"", a) if b"t=" in a or b"m=" in a else a) + end
+                 for whole, a, end in zip(wholes, attrs, ends)]
+        texts = parts[0::4]
+        return b"".join(itertools.chain.from_iterable(zip(texts, cells))) + texts[-1]
+
+
+def write_fast(recalc, out_path) -> str | None:
+    """Write the recalculated copy by rewriting formula cells in place; ``None``
+    when the openpyxl writer must do it (nothing is left behind then)."""
+    from .plan import gc_paused
+
+    with gc_paused():
+        return _write_fast(recalc, out_path)
+
+
+def _write_fast(recalc, out_path) -> str | None:
+    from openpyxl.reader.excel import ExcelReader
+
+    src = recalc.book.path
+    out_path = os.fspath(out_path)
+    kind_in = os.path.splitext(src)[1].lower()
+    kind_out = os.path.splitext(out_path)[1].lower()
+    if kind_in != kind_out or kind_out not in (".xlsx", ".xlsm"):
+        return None
+    per_sheet = defaultdict(dict)
+    for (s, r, c), value in recalc.values.items():
+        per_sheet[s][(r, c)] = value
+    try:
+        reader = ExcelReader(src, read_only=True, keep_vba=False, data_only=False,
+                             keep_links=False)
+        try:
+            reader.read_manifest()
+            reader.read_workbook()
+            parts = [rel.target for _, rel in reader.parser.find_sheets()
+                     if "chartsheet" not in (rel.Type or "")]
+        finally:
+            reader.archive.close()
+    except Exception:
+        return None
+    if len(parts) != len(recalc.book.sheets):
+        return None
+    targets = {part: per_sheet.get(i, {}) for i, part in enumerate(parts)}
+    fd, tmp = _temp_beside(out_path, kind_out)
+    os.close(fd)
+    try:
+        with zipfile.ZipFile(src) as zin, zipfile.ZipFile(tmp, "w", zipfile.ZIP_DEFLATED) as zout:
+            for info in zin.infolist():
+                name = info.filename
+                if name.lower() == "xl/calcchain.xml":
+                    continue
+                out_info = zipfile.ZipInfo(name, date_time=info.date_time)
+                out_info.compress_type = zipfile.ZIP_DEFLATED
+                out_info.external_attr = info.external_attr
+                if targets.get(name):
+                    setattr(out_info, _LEVEL, 1)    # fast: these parts are the big ones
+                    with zin.open(info) as fin, zout.open(out_info, "w") as fout:
+                        _SheetRewriter(targets[name]).rewrite(fin, fout)
+                    continue
+                data = zin.read(info)
+                if name == "[Content_Types].xml":
+                    data = _CALC_TYPE.sub(b"", data)
+                elif name == "xl/_rels/workbook.xml.rels":
+                    data = _CALC_REL.sub(b"", data)
+                zout.writestr(out_info, data)
+        with open(tmp, "rb+") as fh:
+            os.fsync(fh.fileno())
+        os.replace(tmp, out_path)
+    except (_CannotWrite, zipfile.BadZipFile, UnicodeDecodeError, ValueError, KeyError):
+        _remove(tmp)
+        return None
+    except BaseException:
+        _remove(tmp)
+        raise
+    return out_path
