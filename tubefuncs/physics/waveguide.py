@@ -111,6 +111,6 @@ def waveguide_loss(frequency, width, height, length, conductivity=COPPER_CONDUCT
     # Out of domain -> NaN.  Below cutoff, r2 >= 1 already makes the square root
     # NaN or the division infinite, so only the other arguments need masks.
     ok = (b > 0) & (b <= a) & (ell >= 0) & (sigma > 0) & (f > 0)
-    if np.all(ok) and np.ndim(loss) and np.isfinite(loss).all():
+    if np.all(ok) and np.ndim(loss) and r2.max() < 1.0:  # one reduction, no temporary
         return loss
     return np.where(ok & (r2 < 1.0), loss, np.nan)[()]
