@@ -93,8 +93,12 @@ class _CellParser(WorkSheetParser):
 
 
 def _cached_value(element, shared_strings):
-    text = element.findtext(VALUE_TAG, None)
-    kind = element.get("t", "n")
+    return cached_value_from_text(element.get("t", "n"), element.findtext(VALUE_TAG, None),
+                                  shared_strings)
+
+
+def cached_value_from_text(kind: str, text, shared_strings):
+    """Value a spreadsheet application cached in a cell, from its type and <v> text."""
     if not text:
         return "" if kind == "str" and text is not None else V.EMPTY
     if kind == "n":

@@ -41,7 +41,13 @@ from openpyxl.worksheet._reader import _cast_number
 
 from .. import values as V
 from ..limits import Limits
-from ..loader import DEFAULT_LIMITS, FormulaCell, Sheet, load_book
+from ..loader import (
+    DEFAULT_LIMITS,
+    FormulaCell,
+    Sheet,
+    cached_value_from_text,
+    load_book,
+)
 from ..problems import WorkbookError
 from ..references import parse_area
 
@@ -455,23 +461,7 @@ class _Scanner:
     def _cached(self, kind: str, v_tag, v_text, strings):
         """:func:`tubefuncs.headless.loader._cached_value`, from the raw parts."""
         text = None if not v_tag else _text(v_text)
-        if not text:
-            return "" if kind == "str" and text is not None else V.EMPTY
-        if kind == "n":
-            try:
-                return float(text)
-            except ValueError:
-                return V.VALUE
-        if kind == "e":
-            return V.error(text)
-        if kind == "b":
-            return text.strip() in ("1", "true")
-        if kind == "s":
-            try:
-                return str(strings[int(text)])
-            except (ValueError, IndexError):
-                return V.VALUE
-        return text
+        return cached_value_from_text(kind, text, strings)
 
     def _constant(self, kind: str, value: str, strings):
         """openpyxl's value conversion, then :func:`tubefuncs.headless.values.from_file`."""
