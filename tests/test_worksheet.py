@@ -89,6 +89,8 @@ def test_mismatched_ranges():
 def test_text_results_and_convert():
     assert call("TUBE_VERSION").startswith("tubefuncs ")
     assert "TUBE_VELOCITY(voltage, [unit])" in call("TUBE_HELP", "tube_velocity")
+    # functions that size HV, RF power or cooling repeat their caution (design.md)
+    assert "local codes" in call("TUBE_HELP", "TUBE_COOLANT_FLOW")
     assert call("TUBE_CONVERT", 30, "dBm", "W") == pytest.approx(1.0)
     with pytest.raises(TubeInputError) as info:
         call("TUBE_HELP", "TUBE_NOPE")

@@ -8,7 +8,7 @@ from .spec import Function, Param
 
 
 def help(function_name):  # the twin of TUBE_HELP; shadows the builtin here only
-    """One-line help of a catalogue function: signature, then what it returns.
+    """One-line help of a catalogue function: signature, what it returns, caution.
 
     Parameters
     ----------
@@ -25,7 +25,8 @@ def help(function_name):  # the twin of TUBE_HELP; shadows the builtin here only
                          f"(try e.g. 'TUBE_TRANSIT_ANGLE')")
     args = ", ".join(p.name if p.required else f"[{p.name}]" for p in fn.worksheet_params)
     unit = f" [{fn.result_unit}]" if fn.result_unit else ""
-    return f"{fn.name}({args}){unit}: {fn.help}"
+    caution = f" Caution: {fn.caution}" if fn.caution else ""
+    return f"{fn.name}({args}){unit}: {fn.help}{caution}"
 
 
 def version():
