@@ -1,0 +1,7 @@
+"""``python -m tubefuncs ...`` runs the ``tubefuncs`` command."""
+
+import sys
+
+from .cli import main
+
+sys.exit(main())
