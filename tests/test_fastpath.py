@@ -11,6 +11,7 @@ the general engine, on purpose.
 from __future__ import annotations
 
 import glob
+import math
 import os
 import re
 import zipfile
@@ -362,6 +363,33 @@ def test_fast_reader_on_shared_formulas_cached_values_and_hidden_rows(tmp_path):
     inject_cached(path, 1, {"B1": 2.0, "B2": "#VALUE!", "B3": True, "D1": "ab"})
     share_column(path, "B", 1, 7)
     _same_book(load_book(path, sheet_reader=read_sheet), load_book(path))
+
+
+def test_fast_reader_converts_numbers_and_formula_texts_in_bulk_exactly(tmp_path):
+    # Numbers and formula texts are converted a region at a time (one join, one
+    # decode); every odd case must still read as openpyxl's parser reads it.
+    numbers = ["-0", "0", "-00", "+7", "1E+300", "-2.5e-300", "12345678901234567890123",
+               "0.1", "1.", "3e5", "-0.0", "007"]
+    formulas = ["A1&amp;&quot;x&quot;", "IF(A2&lt;&gt;1,&apos;S&apos;!A1,2)", "A3+&#49;",
+                "A4+\r\n1", "A5 +\r1"]
+    cells = {f"A{i}": 1.0 for i in range(1, len(numbers) + 1)}
+    cells.update({f"B{i}": f"=A{i}" for i in range(1, len(formulas) + 1)})
+    path = make_book(tmp_path / "n.xlsx", {"S": {**cells, "C1": "a text"}, "T": {"A1": 1}})
+    xml = read_part(path, sheet_part(path)).decode("utf-8")
+    for i, text in enumerate(numbers, start=1):
+        if i > 1:
+            xml = re.sub(rf'(<c r="A{i}"[^>]*><v>)[^<]*(</v>)', rf"\g<1>{text}\g<2>", xml)
+    for i, text in enumerate(formulas, start=1):
+        xml = xml.replace(f"<f>A{i}</f>", f"<f>{text}</f>", 1)
+    rewrite_part(path, sheet_part(path), xml.encode("utf-8"))
+    fast, slow = load_book(path, sheet_reader=read_sheet), load_book(path)
+    _same_book(fast, slow)
+    for key, value in slow.sheets[0].constants.items():
+        assert repr(fast.sheets[0].constants[key]) == repr(value), key   # the sign of zero
+    assert fast.sheets[0].constants[(2, 1)] == 0.0 and math.copysign(
+        1, fast.sheets[0].constants[(2, 1)]) == 1                     # "-0" is a whole zero
+    assert [fast.sheets[0].formulas[(i, 2)].text for i in (1, 3, 4)] == [
+        '=A1&"x"', "=A3+1", "=A4+\n1"]
 
 
 def test_fast_reader_hands_unusual_xml_to_openpyxl(tmp_path, mixed, monkeypatch):

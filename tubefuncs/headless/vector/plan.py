@@ -31,6 +31,7 @@ import bisect
 import contextlib
 import functools
 import gc
+import itertools
 import re
 import time
 from collections import defaultdict, deque
@@ -159,8 +160,7 @@ class Group:
 
     @property
     def keys(self):
-        s, c = self.sheet, self.col
-        return [(s, r, c) for r in self.rows]
+        return list(zip(itertools.repeat(self.sheet), self.rows, itertools.repeat(self.col)))
 
 
 # ----------------------------------------------------------------------------- the plan
@@ -229,7 +229,7 @@ class FastPlan(Plan):
                 self.anchors.extend((s, r, c) for r, c in sheet.formulas
                                     if self.graph.owner.get((s, r, c)) == (s, r, c))
             else:
-                self.anchors.extend([(s, r, c) for r, c in sheet.formulas])
+                self.anchors.extend(map((s,).__add__, sheet.formulas))   # (s,) + (r, c)
         for group in groups:
             self._prepare(group)
         self.groups = [g for g in groups if g.kind != "split"]
@@ -469,7 +469,8 @@ class FastPlan(Plan):
                 if not self._formula_rows(s2, col):
                     continue
                 d = slot.area.r1 - slot.row0
-                found = {node_of.get((s2, r + d, col)) for r in group.rows}
+                found = set(map(node_of.get, zip(itertools.repeat(s2), map(d.__add__, group.rows),
+                                                 itertools.repeat(col))))   # (C-speed passes)
                 found.discard(None)
                 if index in found:
                     self_reads.append((slot, d))
@@ -551,7 +552,7 @@ class FastPlan(Plan):
                     final.put(i, values[i])
                     self.stats["error cells redone"] += 1
             final = final.tidy()
-        cells.update(zip([(r, col) for r in group.rows], values))
+        cells.update(zip(zip(group.rows, itertools.repeat(col)), values))
         store.keep(group.sheet, col, group.rows, final)
         self.stats["vector cells"] += n
 

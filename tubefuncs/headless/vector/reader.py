@@ -30,7 +30,9 @@ fast path groups them by the shared formula instead.
 from __future__ import annotations
 
 import html
+import itertools
 import math
+import operator
 import re
 import xml.parsers.expat
 
@@ -51,7 +53,7 @@ from ..loader import (
 from ..problems import WorkbookError
 from ..references import parse_area
 
-CHUNK = 4 * 1024 * 1024
+CHUNK = 512 * 1024    # (regions of this size keep the per-cell lists small: faster than 4 MB)
 MAIN_NS = b"http://schemas.openxmlformats.org/spreadsheetml/2006/main"
 
 
@@ -174,6 +176,46 @@ def _number(raw: bytes) -> float:
     return value
 
 
+#: The bytes of plain number texts (what spreadsheet applications write).
+_NUMBER_BYTES = b"0123456789.eE+-"
+
+
+def _numbers(raws: list) -> list:
+    """:func:`_number` of each text, in C-speed passes when all are plain numbers.
+
+    For a text of digits, signs, points and exponents (at most 300 bytes, far
+    from int()'s digit limit) ``float(text)`` is what :func:`_number` gives: the
+    same texts are accepted, both roundings are correct; but for a whole
+    negative zero ("-0", which :func:`_number` reads as +0.0): any zero, and
+    anything unusual, takes :func:`_number` one by one.
+    """
+    if not raws:
+        return []
+    if b"".join(raws).translate(None, _NUMBER_BYTES) or max(map(len, raws)) > 300:
+        return list(map(_number, raws))
+    try:
+        values = list(map(float, raws))
+    except ValueError:
+        return list(map(_number, raws))
+    if 0.0 in values or not -math.inf < min(values) <= max(values) < math.inf:
+        return list(map(_number, raws))
+    return values
+
+
+def _formula_texts(raws: list) -> list:
+    """The texts of formula elements, each with its leading "=": decoded and
+    unescaped as :func:`_text` does, in one pass over the region's formulas
+    joined by NUL (which XML cannot hold, and no reference can span)."""
+    joined = (b"=" + b"\x00=".join(raws)).decode("utf-8")
+    if "&#" in joined:                        # (character references: one by one)
+        texts = ["=" + _unescape(t[1:]) for t in joined.split("\x00")]
+    else:
+        texts = _unescape(joined).split("\x00")
+    if len(texts) != len(raws):
+        raise Unsupported("NUL in a formula")
+    return texts
+
+
 def _column(letters: bytes) -> int:
     col = _COLUMNS.get(letters)
     if col is None:
@@ -183,7 +225,11 @@ def _column(letters: bytes) -> int:
 
 def _text(raw: bytes) -> str:
     """Element text as an XML parser gives it (line ends normalised, references resolved)."""
-    text = raw.decode("utf-8")
+    return _unescape(raw.decode("utf-8"))
+
+
+def _unescape(text: str) -> str:
+    """:func:`_text` of already decoded text."""
     if "\r" in text:
         text = text.replace("\r\n", "\n").replace("\r", "\n")
     if "&" in text:
@@ -314,8 +360,12 @@ class _Scanner:
         pat = self.pat
         if pat["ext"] in region:
             raise Unsupported("extension element inside sheet data")
-        for attrs in pat["row"].findall(region):
-            self._row(attrs)
+        rows = pat["row"].findall(region)
+        # (rows with their number and nothing hidden, the usual: nothing to keep)
+        if b"hidden" in region or not all(map(operator.contains, rows,
+                                              itertools.repeat(b' r="'))):
+            for attrs in rows:
+                self._row(attrs)
         cells = pat["cell"].findall(region)
         if len(cells) != region.count(pat["cell_start"]):
             raise Unsupported("cell layout")
@@ -331,54 +381,55 @@ class _Scanner:
         sheet = self.sheet
         strings = self.shared_strings
         max_len = self.limits.max_formula_length
-        (letters, digits, kinds, attrs, f_tags, f_attrs, f_texts, v_tags, v_texts, is_tags,
+        (letters, digits, raw_kinds, attrs, f_tags, f_attrs, f_texts, v_tags, v_texts, is_tags,
          is_bodies) = zip(*cells)
         rows = list(map(int, digits))
         cols = list(map(_COLUMNS.get, letters))
         if None in cols:
             cols = [c or _column(lt) for c, lt in zip(cols, letters)]
         keys = list(zip(rows, cols))
-        kinds = [_KINDS.get(k) or k.decode("ascii") for k in kinds]
+        kinds = list(map(_KINDS.get, raw_kinds))
+        if None in kinds:
+            kinds = [k or raw.decode("ascii") for k, raw in zip(kinds, raw_kinds)]
         if any(attrs):
             for i, a in enumerate(attrs):
                 if a and b"t=" in a:
                     kinds[i] = _attrs(a).get("t", "n")
         stored = []                                   # indices of cells that hold something
-        formula_at = [i for i, tag in enumerate(f_tags) if tag]
+        formula_at = list(itertools.compress(itertools.count(), f_tags))
         if formula_at:
-            texts = [f_texts[i].decode("utf-8") for i in formula_at]
-            for j, text in enumerate(texts):           # (few: entities, carriage returns)
-                if "&" in text or "\r" in text:
-                    texts[j] = _text(f_texts[formula_at[j]])
-            if any(attrs_ for attrs_ in f_attrs):
+            fkeys = list(map(keys.__getitem__, formula_at))
+            texts = _formula_texts(list(map(f_texts.__getitem__, formula_at)))
+            if any(f_attrs):
                 made = self._special_formulas(formula_at, texts, keys, letters, digits,
                                               f_attrs, f_texts)
             else:
-                if max(map(len, texts)) >= max_len:
-                    j = next(j for j, t in enumerate(texts) if len(t) >= max_len)
+                if max(map(len, texts)) > max_len:     # (texts with their "=")
+                    j = next(j for j, t in enumerate(texts) if len(t) > max_len)
                     self._too_long(*keys[formula_at[j]])
-                made = list(map(FormulaCell, map("=".__add__, texts)))
-            sheet.formulas.update(zip([keys[i] for i in formula_at], made))
+                made = list(map(FormulaCell, texts))
+            sheet.formulas.update(zip(fkeys, made))
             empty = V.EMPTY
-            sheet.cached.update(zip(
-                [keys[i] for i in formula_at],
-                [self._cached(kinds[i], v_tags[i], v_texts[i], strings)
-                 if v_texts[i] or kinds[i] == "str" else empty for i in formula_at]))
+            if "str" not in kinds and not any(map(v_texts.__getitem__, formula_at)):
+                # no cached values (a workbook openpyxl wrote): one C pass
+                sheet.cached.update(dict.fromkeys(fkeys, empty))
+            else:
+                sheet.cached.update(zip(
+                    fkeys,
+                    [self._cached(kinds[i], v_tags[i], v_texts[i], strings)
+                     if v_texts[i] or kinds[i] == "str" else empty for i in formula_at]))
             stored = formula_at
-        constant_at = [i for i, tag in enumerate(f_tags) if not tag]
+        constant_at = list(itertools.compress(itertools.count(), map(operator.not_, f_tags)))
         if constant_at:
             numbers = [i for i in constant_at if kinds[i] == "n" and v_texts[i]]
-            if len(numbers) == len(constant_at):
-                values = [_number(v_texts[i]) for i in numbers]
-            else:
-                numbers, values = [], []
-                for i in constant_at:
+            values = _numbers(list(map(v_texts.__getitem__, numbers)))
+            if len(numbers) != len(constant_at):
+                # The numbers are converted together all the same (a header row of
+                # text is usual); the other cells one by one; the cells keep their order.
+                held = dict(zip(numbers, values))
+                for i in [i for i in constant_at if kinds[i] != "n"]:
                     kind = kinds[i]
-                    if kind == "n":
-                        if not v_texts[i]:
-                            continue
-                        value = _number(v_texts[i])
-                    elif kind == "inlineStr":
+                    if kind == "inlineStr":
                         if not is_tags[i]:
                             continue
                         value = self._inline(is_bodies[i])
@@ -386,13 +437,14 @@ class _Scanner:
                         value = self._constant(kind, _text(v_texts[i]), strings)
                     else:
                         continue
-                    numbers.append(i)
-                    values.append(value)
-            sheet.constants.update(zip([keys[i] for i in numbers], values))
+                    held[i] = value
+                numbers = sorted(held)
+                values = list(map(held.__getitem__, numbers))
+            sheet.constants.update(zip(map(keys.__getitem__, numbers), values))
             stored = stored + numbers if stored else numbers
         if stored:
-            self.max_row = max(self.max_row, max([rows[i] for i in stored]))
-            self.max_col = max(self.max_col, max([cols[i] for i in stored]))
+            self.max_row = max(self.max_row, max(map(rows.__getitem__, stored)))
+            self.max_col = max(self.max_col, max(map(cols.__getitem__, stored)))
 
     def _special_formulas(self, formula_at, texts, keys, letters, digits, f_attrs, f_texts):
         """Formula cells of a region where some are shared, array or data-table formulas."""
@@ -400,9 +452,9 @@ class _Scanner:
         made = []
         for j, i in enumerate(formula_at):
             if not f_attrs[i]:
-                if len(texts[j]) >= max_len:
+                if len(texts[j]) > max_len:            # (texts with their "=")
                     self._too_long(*keys[i])
-                made.append(FormulaCell("=" + texts[j]))
+                made.append(FormulaCell(texts[j]))
                 continue
             cell = self._formula(letters[i], digits[i], f_attrs[i], f_texts[i])
             if cell.array_ref is not None:

@@ -94,7 +94,10 @@ def group_sheet(sheet, eligible=None) -> tuple[dict, list]:
     """
     groups: dict = {}
     singles: list = []
-    last: dict = {}              # col -> (Form, its format, offsets) of the column's last cell
+    # col -> (Form, its format, its offset count, zero offsets?, the rows of its
+    # group) of the column's last cell: a cell of the same form goes straight to
+    # its group's rows (no key built, no lookup)
+    last: dict = {}
     for rc, cell in sheet.formulas.items():
         if eligible is not None and not eligible(rc):
             singles.append(rc)
@@ -111,17 +114,20 @@ def group_sheet(sheet, eligible=None) -> tuple[dict, list]:
                     rows.append(r)
                 continue
         text = cell.text
-        form = last.get(c)
-        if form is None or (form.fmt % ((r,) * form.k) if form.zero else form.render(r)) != text:
-            form = relative_form(text, r)
-            if form is None:
-                singles.append(rc)
-                continue
-            last[c] = form
+        state = last.get(c)
+        if state is not None and (state[1] % ((r,) * state[2]) if state[3]
+                                  else state[0].render(r)) == text:
+            state[4].append(r)
+            continue
+        form = relative_form(text, r)
+        if form is None:
+            singles.append(rc)
+            continue
         key = (c, form.key)
         rows = groups.get(key)
         if rows is None:
-            groups[key] = [r]
+            rows = groups[key] = [r]
         else:
             rows.append(r)
+        last[c] = (form, form.fmt, form.k, form.zero, rows)
     return groups, singles
