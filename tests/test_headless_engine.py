@@ -17,7 +17,7 @@ ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
 def _battery():
     spec = importlib.util.spec_from_file_location(
-        "excel_battery", os.path.join(ROOT, "benchmarks", "excel_battery.py"))
+        "excel_battery", os.path.join(ROOT, "tests", "benchmarks", "excel_battery.py"))
     mod = importlib.util.module_from_spec(spec)
     spec.loader.exec_module(mod)
     return mod

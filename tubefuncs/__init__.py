@@ -17,6 +17,7 @@ def __getattr__(attr):
 
     for fn in CATALOGUE.values():
         if fn.python_name == attr:
+            globals()[attr] = fn.func  # found once; later look-ups skip this hook
             return fn.func
     raise AttributeError(f"module 'tubefuncs' has no attribute {attr!r}")
 

@@ -1,6 +1,6 @@
 """Function reference generated from the catalogue.
 
-``python -m tubefuncs.docs`` rewrites ``docs/functions.md``; a test fails when
+``python -m tubefuncs.docs`` rewrites ``tubefuncs/functions.md``; a test fails when
 the checked-in file differs from what this module generates.
 """
 
@@ -12,7 +12,7 @@ from pathlib import Path
 from .catalogue import CATALOGUE
 from .catalogue.spec import REQUIRED, Function
 
-DOC_PATH = Path(__file__).resolve().parent.parent / "docs" / "functions.md"
+DOC_PATH = Path(__file__).resolve().parent / "functions.md"
 
 HEADER = """# tubefuncs function reference
 

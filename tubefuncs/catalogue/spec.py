@@ -5,7 +5,7 @@ Python physics function it calls, its parameters (name, default SI unit, help,
 domain, default), the unit of its result, a one-line help, references and,
 where the quantity sizes high voltage, RF power or cooling, a caution.
 
-The Excel add-in, the headless engine and ``docs/functions.md`` are generated
+The Excel add-in, the headless engine and ``tubefuncs/functions.md`` are generated
 from these declarations; nothing else lists the functions.
 """
 

@@ -98,7 +98,7 @@ def excel_library() -> dict:
     """The `formulas` function library, as ``NAME -> callable(*values)``.
 
     Corrected here where `formulas` 1.3 departs from Excel (found with the
-    battery in ``benchmarks/excel_battery.py``): aggregates skip text held in
+    battery in ``tests/benchmarks/excel_battery.py``): aggregates skip text held in
     ranges; ISNUMBER is false for numeric text.
     """
     out = _formulas_library()

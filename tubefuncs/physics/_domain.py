@@ -21,14 +21,25 @@ def _masked(ok, value):
     return value[()]
 
 
+def _lowest(x) -> float:
+    """Smallest element of ``x`` (NaN if any is NaN; +inf when empty).
+
+    A single value is read as a Python float: cheaper than a numpy reduction,
+    which matters for the per-cell calls of a worksheet.
+    """
+    if x.ndim == 0:
+        return float(x)
+    return x.min() if x.size else np.inf
+
+
 def _domain_ok(nonnegative=(), positive=()):
     """Mask: every array of ``nonnegative`` is >= 0 and every one of ``positive`` > 0.
 
     Returns ``np.True_`` when all elements pass, found through reductions
     (no temporary arrays); NaN elements fail.
     """
-    if (all(x.size == 0 or x.min() >= 0 for x in nonnegative)
-            and all(x.size == 0 or x.min() > 0 for x in positive)):
+    if (all(_lowest(x) >= 0 for x in nonnegative)
+            and all(_lowest(x) > 0 for x in positive)):
         return np.True_
     ok = np.True_
     for x in nonnegative:
@@ -45,7 +56,7 @@ def _nan_where_invalid(y, ok):
     element is valid, and otherwise the fresh result array ``y`` is patched in
     place.  ``y`` must be a new array of this call (never a caller's input).
     """
-    if np.all(ok):
+    if ok is np.True_ or np.all(ok):
         return y[()]
     if (isinstance(y, np.ndarray) and y.flags.writeable
             and np.broadcast_shapes(y.shape, np.shape(ok)) == y.shape):

@@ -1,6 +1,6 @@
 """Recalculation time per formula cell (run on demand, not in the test suite).
 
-    python benchmarks/bench_recalc.py [--rows 10000]
+    python tests/benchmarks/bench_recalc.py [--rows 10000]
 
 Measures the headless engine on the demo workbooks and on a generated sweep
 of ROWS rows x 6 formula columns (four catalogue functions, two Excel
@@ -18,7 +18,7 @@ import sys
 import tempfile
 import time
 
-ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 sys.path.insert(0, ROOT)
 
 from tubefuncs.headless import recalculate  # noqa: E402

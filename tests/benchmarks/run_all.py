@@ -1,6 +1,6 @@
 """Run every benchmark in one process, so ratios are measured side by side.
 
-Run: ``python benchmarks/run_all.py``.  Figures are printed, not asserted:
+Run: ``python tests/benchmarks/run_all.py``.  Figures are printed, not asserted:
 these are measurements on noisy machines, not unit tests.
 """
 

@@ -1,6 +1,6 @@
 """Compare formula engines on fidelity and speed (run on demand).
 
-    python benchmarks/compare_engines.py
+    python tests/benchmarks/compare_engines.py
 
 Fidelity: the formula battery of ``excel_battery.py`` (Excel's results).
 Speed: a generated sheet of N rows x 6 formula columns, time per formula
@@ -18,7 +18,7 @@ import time
 import warnings
 
 sys.path.insert(0, os.path.dirname(__file__))
-sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
 from excel_battery import BATTERY, build, same  # noqa: E402
 
 warnings.simplefilter("ignore")

@@ -5,7 +5,7 @@ call) and the same eigenvalue relation solved point by point with
 `scipy.optimize.brentq` in a Python loop.  The loop is timed on a subset
 (2000 points by default) and scaled to n points; the output says so.  Target:
 the vectorised call at least 50 times faster.  Not a unit test: run
-``python benchmarks/bench_reduction.py`` from the repository root.
+``python tests/benchmarks/bench_reduction.py`` from the repository root.
 """
 
 from __future__ import annotations

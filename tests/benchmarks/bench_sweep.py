@@ -1,6 +1,6 @@
 """A 10,000-row sweep workbook: fast path vs general engine vs LibreOffice.
 
-    python benchmarks/bench_sweep.py [--rows 10000] [--repeat 2] [--no-general]
+    python tests/benchmarks/bench_sweep.py [--rows 10000] [--repeat 2] [--no-general]
                                      [--no-libreoffice]
 
 The generated sweep (an invented S-band station: frequency swept over 2.8-3.2
@@ -41,7 +41,7 @@ import sys
 import tempfile
 import time
 
-ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 sys.path.insert(0, ROOT)
 
 TOLERANCES = (-0.05, -0.02, 0.0, 0.02, 0.05)      # beam-voltage cases around nominal

@@ -1,6 +1,6 @@
 """Which Excel worksheet functions the headless engine does not evaluate (on demand).
 
-    python benchmarks/excel_function_coverage.py
+    python tests/benchmarks/excel_function_coverage.py
 
 The list of Excel's functions is taken from the function-information table
 that the `pycel` package ships (Excel 2019/365 era), when it is installed;
@@ -12,7 +12,7 @@ from __future__ import annotations
 import os
 import sys
 
-sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
 
 from tubefuncs.headless.functions import resolve  # noqa: E402
 

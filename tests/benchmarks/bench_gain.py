@@ -6,7 +6,7 @@ of ``workbooks/examples/klystron_cavities.csv`` (90 kV, 27 A, 4 mm beam in a
 Target: <= 5 ms per sweep (median of repeats).  Also prints the split between
 the beam (reduction factor, plasma frequency) and the cavity chain, and the
 ratio to a per-frequency Python loop over the same function, to show what the
-vectorisation buys.  Not a unit test: run ``python benchmarks/bench_gain.py``
+vectorisation buys.  Not a unit test: run ``python tests/benchmarks/bench_gain.py``
 with the package installed (or ``PYTHONPATH=.`` from the repository root).
 """
 

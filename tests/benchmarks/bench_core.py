@@ -4,7 +4,7 @@
    expression of the same formula (target <= 1.5x).
 2. A scalar worksheet call with unit text (target <= 30 us median).
 
-Run: ``python benchmarks/bench_core.py``.
+Run: ``python tests/benchmarks/bench_core.py``.
 """
 
 from __future__ import annotations
