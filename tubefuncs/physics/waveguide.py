@@ -104,10 +104,13 @@ def waveguide_loss(frequency, width, height, length, conductivity=COPPER_CONDUCT
     ell = np.asarray(length, dtype=float)
     sigma = np.asarray(conductivity, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
-        r2 = ((0.5 * sc.c) / (a * f)) ** 2               # (f_c / f)^2 with f_c = c/(2a)
-        rs = np.sqrt((np.pi * sc.mu_0) * f / sigma)      # R_s = sqrt(pi f mu0 / sigma)
-        alpha = rs * (1.0 + 2.0 * (b / a) * r2) / (b * ETA0 * np.sqrt(1.0 - r2))  # [1] Np/m
-        loss = (DB20_PER_NEPER * ell) * alpha
+        # Factors that do not depend on frequency are grouped first: with one
+        # guide and a column of frequencies they stay single numbers.
+        r2 = ((0.5 * sc.c) / a / f) ** 2                 # (f_c / f)^2 with f_c = c/(2a)
+        rs = np.sqrt(f * ((np.pi * sc.mu_0) / sigma))    # R_s = sqrt(pi f mu0 / sigma)
+        # [1]: alpha = R_s (1 + (2b/a)(f_c/f)^2) / (b eta0 sqrt(1 - (f_c/f)^2))  [Np/m]
+        loss = ((DB20_PER_NEPER * ell) / (b * ETA0)) * rs * (1.0 + (2.0 * b / a) * r2) \
+            / np.sqrt(1.0 - r2)
     # Out of domain -> NaN.  Below cutoff, r2 >= 1 already makes the square root
     # NaN or the division infinite, so only the other arguments need masks.
     ok = (b > 0) & (b <= a) & (ell >= 0) & (sigma > 0) & (f > 0)
