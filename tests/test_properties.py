@@ -128,3 +128,59 @@ def test_long_fuzz(fn):
         check_outcome(fn, args)
 
     run()
+
+
+def _scalar_outcome(name, args):
+    """(value, None) or (None, error value) of a scalar worksheet call."""
+    try:
+        return evaluate(name, args).value, None
+    except TubeInputError as exc:
+        return None, exc.error_value
+
+
+BROADCASTING = [fn for fn in CATALOGUE.values()
+                if not fn.returns_text and any(p.kind == "number" for p in fn.params)
+                and all(p.kind != "table" for p in fn.params)]
+
+
+@pytest.mark.parametrize("fn", BROADCASTING, ids=[fn.name for fn in BROADCASTING])
+def test_a_range_gives_what_each_cell_gives_alone(fn):
+    # The range path (one vectorised call, bad elements marked) and the scalar
+    # path (one call per cell) must agree cell by cell: same number, or the
+    # same Excel error value.
+    numbers_params = [p for p in fn.params if p.kind == "number"]
+
+    @settings(max_examples=EXAMPLES // 2, deadline=4000, derandomize=not LONG,
+              suppress_health_check=list(HealthCheck))
+    @given(st.lists(st.tuples(*[st.one_of(valid_number(p), numbers, texts)
+                                for p in numbers_params]), min_size=1, max_size=4))
+    def run(rows):
+        columns = [[[row[k]] for row in rows] for k in range(len(numbers_params))]
+        args, k = [], 0
+        for p in fn.params:
+            if p.kind == "number":
+                args.append(columns[k])
+                k += 1
+            else:
+                args.append(None)  # text parameters keep their defaults
+        try:
+            out = evaluate(fn.name, args)
+        except TubeInputError:
+            return  # a whole-call error (e.g. a text argument): nothing per cell to compare
+        for i, row in enumerate(rows):
+            scalar_args, k = [], 0
+            for p in fn.params:
+                if p.kind == "number":
+                    scalar_args.append(row[k])
+                    k += 1
+                else:
+                    scalar_args.append(None)
+            value, code = _scalar_outcome(fn.name, scalar_args)
+            if code is None:
+                assert (i, 0) not in out.errors
+                assert out.value[i, 0] == pytest.approx(value, rel=1e-12, abs=0.0) or \
+                    (value == 0.0 and out.value[i, 0] == 0.0)
+            else:
+                assert out.errors[(i, 0)].error_value == code
+
+    run()
