@@ -428,6 +428,34 @@ def test_fast_writer_writes_what_the_openpyxl_writer_writes(tmp_path, plain, fas
     assert b"<f" not in read_part(fast, "xl/worksheets/sheet1.xml")
 
 
+def test_fast_writer_matches_cells_in_any_order(plain, monkeypatch):
+    """Cells given in the part's order are matched by position; in another order
+    (from any region on) by address: the same bytes either way."""
+    import io
+
+    from tubefuncs.headless.vector import writer
+
+    monkeypatch.setattr(writer, "CHUNK", 512)            # many regions
+    recalc = recalculate(plain)
+    part = read_part(plain, sheet_part(plain, 1))
+    cells = [(r, c, v) for (s, r, c), v in recalc.values.items() if s == 0]
+    assert len(cells) > 50
+
+    def rewrite(order):
+        rows, cols, values = (list(x) for x in zip(*order))
+        out = io.BytesIO()
+        writer._SheetRewriter(rows, cols, values).rewrite(io.BytesIO(part), out)
+        return out.getvalue()
+
+    in_order = rewrite(cells)
+    assert b"<f" not in in_order and in_order != part
+    late = cells[:-3] + cells[-3:][::-1]                 # out of order in the last region
+    middle = cells[:len(cells) // 2] + cells[len(cells) // 2:][::-1]
+    assert rewrite(cells[::-1]) == rewrite(late) == rewrite(middle) == in_order
+    with pytest.raises(writer._CannotWrite):            # a cell the part does not hold
+        rewrite(cells + [(9999, 3, 1.0)])
+
+
 def test_fast_writer_drops_the_calculation_chain(tmp_path, plain, fast_writes):
     path = tmp_path / "chain.xlsx"
     ct = read_part(plain, "[Content_Types].xml").replace(

@@ -32,6 +32,7 @@ import contextlib
 import functools
 import gc
 import itertools
+import operator
 import re
 import time
 from collections import defaultdict, deque
@@ -208,7 +209,7 @@ class FastPlan(Plan):
         groups = []
         for sheet in book.sheets:
             s = sheet.index
-            has_arrays = any(cell.array_ref for cell in sheet.formulas.values())
+            has_arrays = any(map(operator.attrgetter("array_ref"), sheet.formulas.values()))
             eligible = None
             if has_arrays:
                 self._array_sheets.add(s)
@@ -735,9 +736,10 @@ def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
         for m in group.name_messages:
             name_errors.extend(((group.sheet, r, group.col), m) for r in group.rows)
     seen = {k for k, _ in name_errors}
-    for key, value in values.items():
-        if value is V.NAME and key not in seen:
-            name_errors.append((key, plan.messages.get(key, "#NAME?")))
+    if any(map(operator.is_, values.values(), itertools.repeat(V.NAME))):   # (a C pass)
+        for key, value in values.items():
+            if value is V.NAME and key not in seen:
+                name_errors.append((key, plan.messages.get(key, "#NAME?")))
     name_errors.sort()
     recalc = Recalculation(book, values, plan.messages, name_errors, len(plan.anchors),
                            {"read": t1 - t0, "compile": t2 - t1, "evaluate": t3 - t2})

@@ -52,8 +52,9 @@ def _patterns(prefix: bytes):
     p = re.escape(prefix)
     return {
         # a formula cell; groups: the whole element, its attributes, its address
+        # (column letters, row digits)
         "cell": re.compile(
-            rb"(<" + p + rb"c( r=\"([A-Z]{1,3}[0-9]{1,7})\"[^>/]*)>\s*"
+            rb"(<" + p + rb"c( r=\"([A-Z]{1,3})([0-9]{1,7})\"[^>/]*)>\s*"
             rb"<" + p + rb"f\b[^>]*?(?:/>|>[^<]*</" + p + rb"f>)\s*"
             rb"(?:<" + p + rb"v\b[^>]*?(?:/>|>[^<]*</" + p + rb"v>)\s*)?"
             rb"(?:<" + p + rb"is>.*?</" + p + rb"is>\s*)?"
@@ -97,20 +98,43 @@ def _value_xml(prefix: str, value) -> bytes:
 
 
 class _SheetRewriter:
-    """Rewrites one worksheet part, chunk by chunk, into an archive member."""
+    """Rewrites one worksheet part, chunk by chunk, into an archive member.
+
+    The cells to write usually come in the order the part holds them (the
+    reader's order): they are matched by position, each region's addresses
+    compared with the expected ones in one C comparison.  From the first region
+    that differs, the cells left are matched by address instead.
+    """
 
     def __init__(self, rows: list, cols: list, values: list):
         self.rows, self.cols, self.values = rows, cols, values   # cell i: (rows[i], cols[i])
-        self.table = None             # b"B5" -> the rest of its new cell element
+        self.table = None             # by address: b"B5" -> the rest of its new cell element
         self.pat = None
+        self.ends = None              # by position: the rest of each new cell element
+        self.letters = self.digits = None   # by position: each cell's address, as bytes
+        self.at = 0                   # by position: cells written so far
 
-    def _table(self) -> dict:
+    def _prepare(self) -> None:
         from openpyxl.utils.cell import get_column_letter
 
+        self.ends = self._ends()
+        names = {c: get_column_letter(c).encode("ascii") for c in set(self.cols)}
+        self.letters = list(map(names.__getitem__, self.cols))
+        self.digits = ("\x00".join(map(str, self.rows)).encode("ascii").split(b"\x00")
+                       if self.rows else [])
+        self.table = {}
+
+    def _by_address(self) -> None:
+        """Match the cells not yet written by address from now on."""
+        at = self.at
+        self.table = dict(zip(map(bytes.__add__, self.letters[at:], self.digits[at:]),
+                              self.ends[at:]))
+        self.ends = None
+
+    def _ends(self) -> list:
+        """The rest of each cell's new element (from after its attributes), in order."""
         prefix = self.pat["prefix"].decode("ascii")
         values = self.values
-        letters = {c: get_column_letter(c) for c in set(self.cols)}
-        keys = [f"{letters[c]}{r}".encode("ascii") for r, c in zip(self.rows, self.cols)]
         # Numbers (nearly every value) are formatted in one pass: one join and one
         # encode for all of them instead of two concatenations and an encode each
         # (``repr``, the same shortest round-trip text as before).  The few other
@@ -126,7 +150,7 @@ class _SheetRewriter:
             .encode("ascii").split(b"\x00") if texts else []
         for i in others:
             ends[i] = _value_xml(prefix, values[i])
-        return dict(zip(keys, ends))
+        return ends
 
     def rewrite(self, src, dst) -> None:
         state = "head"
@@ -149,7 +173,7 @@ class _SheetRewriter:
                             raise _CannotWrite("no worksheet root")
                         continue
                     self.pat = _patterns(root.group(1) + b":" if root.group(1) else b"")
-                    self.table = self._table()
+                    self._prepare()
                 m = self.pat["data_open"].search(buf)
                 if m is None:
                     dst.write(buf[:-4096])
@@ -182,17 +206,29 @@ class _SheetRewriter:
             pending, buf = [], chunk[cut:]
         if state != "after":
             raise _CannotWrite("worksheet part without an end to its cells")
-        if self.table:
+        if self.table or (self.ends is not None and self.at != len(self.ends)):
             raise _CannotWrite("cells to write that the part does not hold")
 
     def _region(self, region: bytes) -> bytes:
         start = self.pat["cell_start"]
-        parts = self.pat["cell"].split(region)    # text, cell, attributes, address, text...
-        wholes, attrs, addresses = parts[1::4], parts[2::4], parts[3::4]
+        # text, cell, attributes, address letters, address digits, text...
+        parts = self.pat["cell"].split(region)
+        wholes, attrs = parts[1::5], parts[2::5]
         if len(wholes) != region.count(self.pat["formula_start"]):
             raise _CannotWrite("formula cell layout")
-        # (map over the C methods: no Python frame per cell)
-        ends = list(map(self.table.pop, addresses, itertools.repeat(None, len(addresses))))
+        n = len(wholes)
+        ends = None
+        if self.ends is not None:
+            at = self.at
+            if parts[3::5] == self.letters[at:at + n] and parts[4::5] == self.digits[at:at + n]:
+                ends = self.ends[at:at + n]          # the expected cells, in order
+                self.at = at + n
+            else:                                    # not in order: by address from here on
+                self._by_address()
+        if ends is None:
+            addresses = list(map(bytes.__add__, parts[3::5], parts[4::5]))
+            # (map over the C methods: no Python frame per cell)
+            ends = list(map(self.table.pop, addresses, itertools.repeat(None, n)))
         if not any(ends):
             return region
         joined = b"\x00".join(attrs)
@@ -205,10 +241,11 @@ class _SheetRewriter:
                      start + (drop(b"", a) if b"t=" in a or b"m=" in a else a) + end
                      for whole, a, end in zip(wholes, attrs, ends)]
         # the cells take the place of the matches; the groups' slots become empty
-        parts[1::4] = cells
+        parts[1::5] = cells
         blank = [b""] * len(cells)
-        parts[2::4] = blank
-        parts[3::4] = blank
+        parts[2::5] = blank
+        parts[3::5] = blank
+        parts[4::5] = blank
         return b"".join(parts)
 
 
@@ -232,7 +269,7 @@ def _write_fast(recalc, out_path) -> str | None:
         return None
     per_sheet = defaultdict(lambda: ([], [], []))     # sheet -> (rows, cols, values)
     keys, values = list(recalc.values), list(recalc.values.values())
-    sheet_of = [k[0] for k in keys]
+    sheet_of = list(map(operator.itemgetter(0), keys))
     if keys and sheet_of.count(sheet_of[0]) == len(keys):   # one sheet: split in C
         _, rows, cols = zip(*keys)
         per_sheet[sheet_of[0]] = (list(rows), list(cols), values)
