@@ -95,3 +95,12 @@ def test_text_results_and_convert():
     with pytest.raises(TubeInputError) as info:
         call("TUBE_HELP", "TUBE_NOPE")
     assert info.value.error_value == "#VALUE!"
+
+
+def test_checks_use_numpy_arithmetic_on_single_values():
+    # Found by the long fuzz: (c/2 / (width*1e-300))**2 overflows a Python float
+    # (OverflowError) where numpy gives inf; the cutoff check must simply fail.
+    with pytest.raises(TubeInputError, match="below the TE10 cutoff"):
+        call("TUBE_WAVEGUIDE_LOSS", 1e-300, 1.0, 1.0, 0.0)
+    out = evaluate("TUBE_WAVEGUIDE_LOSS", [1e-300, 1.0, 1.0, [[0.0], [1.0]]])
+    assert set(out.errors) == {(0, 0), (1, 0)}

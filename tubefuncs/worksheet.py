@@ -254,7 +254,7 @@ class _Call:
             operands = [values[names.index(a)] for a in check.args]
             if any(op is None for op in operands):
                 continue
-            if not bool(check.test(*operands)):
+            if not _check_passes(check, operands):
                 return _check_text(check, operands), check.error_value
         return None
 
@@ -302,8 +302,7 @@ class _Call:
             operands = [self.values[names.index(a)] for a in check.args]
             if any(op is None for op in operands):
                 continue
-            with np.errstate(all="ignore"):
-                ok = np.broadcast_to(np.asarray(check.test(*operands), dtype=bool), shape)
+            ok = np.broadcast_to(_check_mask(check, operands), shape)
             for idx in zip(*np.nonzero(~ok & np.equal(errors, None))):
                 errors[idx] = self.error(None, _check_text(
                     check, [_element(op, idx) for op in operands]), check.error_value)
@@ -327,6 +326,26 @@ class _Call:
             if p.kind == "number" and v is not None:
                 parts.append(f"{p.name}={show_value(float(v))}")
         return ", ".join(parts)
+
+
+def _check_mask(check, operands):
+    """Run a check with numpy's arithmetic: a boolean (array) of where it passes.
+
+    Python floats raise OverflowError where numpy gives inf (``(1/1e-300)**2``),
+    so single values become numpy floats; a check that cannot be evaluated
+    fails everywhere (its message then says what is allowed).
+    """
+    numeric = [np.float64(op) if isinstance(op, float) else op for op in operands]
+    try:
+        with np.errstate(all="ignore"):
+            return np.asarray(check.test(*numeric), dtype=bool)
+    except (ArithmeticError, ValueError, TypeError):
+        return np.asarray(False)
+
+
+def _check_passes(check, operands) -> bool:
+    """True when a check passes on single values (see `_check_mask`)."""
+    return bool(np.all(_check_mask(check, operands)))
 
 
 def _check_text(check, operands) -> str:
