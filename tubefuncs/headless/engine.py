@@ -80,6 +80,16 @@ class Plan:
         self._build()
 
     # ------------------------------------------------------------- operands
+    def _note_names(self, anchor, compiled, slots) -> None:
+        """Record every #NAME? of a compiled formula (unknown functions and names)."""
+        for res in compiled.unknown:
+            self.name_errors.append((anchor, res.message))
+        if compiled.problem:
+            self.name_errors.append((anchor, compiled.problem))
+        for slot in slots:
+            if isinstance(slot, ErrorOperand) and slot.code == "#NAME?":
+                self.name_errors.append((anchor, slot.message))
+
     def _operand(self, text: str, sheet_index: int, depth: int = 0):
         book = self.book
         text = text.lstrip("@")
@@ -155,13 +165,8 @@ class Plan:
             compiled, texts = compile_formula(cell.text)
             slots = [self._operand(t, anchor[0]) for t in texts]
             self.cells[anchor] = (compiled, slots, block)
-            for res in compiled.unknown:
-                self.name_errors.append((anchor, res.message))
-            if compiled.problem:
-                self.name_errors.append((anchor, compiled.problem))
+            self._note_names(anchor, compiled, slots)
             for slot in slots:
-                if isinstance(slot, ErrorOperand) and slot.code == "#NAME?":
-                    self.name_errors.append((anchor, slot.message))
                 for area in slot.areas():
                     graph.add_read(anchor, book.sheet(area.sheet).index, area)
         try:

@@ -304,15 +304,6 @@ class FastPlan(Plan):
         self.cells[anchor] = (compiled, slots, self.blocks.get(anchor))
         self._note_names(anchor, compiled, slots)
 
-    def _note_names(self, anchor, compiled, slots) -> None:
-        for res in compiled.unknown:
-            self.name_errors.append((anchor, res.message))
-        if compiled.problem:
-            self.name_errors.append((anchor, compiled.problem))
-        for slot in slots:
-            if isinstance(slot, ErrorOperand) and slot.code == "#NAME?":
-                self.name_errors.append((anchor, slot.message))
-
     def _group_cell(self, group: Group, row: int):
         """Register one cell of a group for the general engine."""
         anchor = (group.sheet, row, group.col)
