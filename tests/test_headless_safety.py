@@ -104,7 +104,7 @@ def test_snapshot_is_written_atomically(tmp_path, book, monkeypatch):
     target.write_text("old\n")
     recalc = recalculate(book)
     monkeypatch.setattr(os, "replace", lambda a, b: (_ for _ in ()).throw(OSError("full")))
-    with pytest.raises(OSError):
+    with pytest.raises(WorkbookError, match="cannot write"):   # (one line, exit 2)
         write_snapshot(recalc, target)
     assert target.read_text() == "old\n"
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".tubefuncs-")] == []
@@ -143,15 +143,27 @@ def test_macros_are_never_run_and_vba_is_copied_through(tmp_path, book, monkeypa
 
     monkeypatch.setattr(subprocess, "Popen", forbidden)
     monkeypatch.setattr(os, "system", forbidden)
-    opened = []
+    from tubefuncs.headless import limits as limits_module
+
+    opened, inspecting = [], []
     real_open = zipfile.ZipFile.open
+    real_scan = limits_module._scan_whole
 
     def spy(self, name, *a, **k):
-        opened.append(getattr(name, "filename", name))
+        if not inspecting:
+            opened.append(getattr(name, "filename", name))
         return real_open(self, name, *a, **k)
+
+    def scan(*a, **k):   # the inspection checks the part's bytes (CRC, no DTD) as opaque data
+        inspecting.append(1)
+        try:
+            return real_scan(*a, **k)
+        finally:
+            inspecting.pop()
 
     xlsm = _xlsm(tmp_path, book)
     monkeypatch.setattr(zipfile.ZipFile, "open", spy)
+    monkeypatch.setattr(limits_module, "_scan_whole", scan)
     recalc = recalculate(xlsm)
     assert "xl/vbaProject.bin" not in opened            # evaluation never reads the VBA
     assert recalc.value("S", "A2") == 6.0
