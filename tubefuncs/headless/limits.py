@@ -92,8 +92,8 @@ def regular_file(name: str, what: str = "workbook") -> os.stat_result:
     if stat.S_ISDIR(st.st_mode):
         raise WorkbookError(f"{name}: is a directory, not {_article(what)} {what}")
     if not stat.S_ISREG(st.st_mode):
-        raise WorkbookError(f"{name}: not a regular file ({file_kind(st)}); {_article(what)} {what} "
-                            f"must be an ordinary file")
+        raise WorkbookError(f"{name}: not a regular file ({file_kind(st)}); "
+                            f"{_article(what)} {what} must be an ordinary file")
     return st
 
 
