@@ -27,7 +27,8 @@ gamma_r is imaginary and I0, I1 become J0, J1.
 
 The profile is computed once per (frequency, radii, gap length) by a discrete
 inverse cosine transform (FFT), with a smooth spectral cut-off
-exp(-(beta/beta_c)^4), beta_c = 8 omega/u0, that leaves G within 4e-3 up to
+exp(-(beta/beta_c)^4), beta_c = 8 omega/u0 at the default step grid
+(a quarter of the steps per beam wavelength in general), that leaves G within 4e-3 up to
 twice the DC wave number (disks slowed to half the DC velocity) and makes
 g smooth on the scale of the step grid.  It is truncated where |g| falls
 below 1e-3 of its peak (the field decays as exp(-2.405 |z|/a) outside the
@@ -92,7 +93,7 @@ def rms_coupling(beta, k0, gap_length, beam_radius, tunnel_radius):
     return m_grid * np.where(slow, radial_slow, radial_fast)
 
 
-def profile(frequency, u0, gap_length, beam_radius, tunnel_radius):
+def profile(frequency, u0, gap_length, beam_radius, tunnel_radius, cutoff_waves=CUTOFF_WAVES):
     """Axial field profile g(z) of one gridless gap, on a fine grid.
 
     Parameters
@@ -100,6 +101,9 @@ def profile(frequency, u0, gap_length, beam_radius, tunnel_radius):
     frequency, u0, gap_length, beam_radius, tunnel_radius : float
         Signal frequency [Hz], DC velocity [m/s], gap length, beam and tunnel
         radius [m].
+    cutoff_waves : float, optional
+        Spectral cut-off beta_c in DC wave numbers (8 by default; the model
+        ties it to its step grid, a quarter of the steps per beam wavelength).
 
     Returns
     -------
@@ -116,7 +120,7 @@ def profile(frequency, u0, gap_length, beam_radius, tunnel_radius):
     n_half = N_FFT // 2 + 1
     beta = d_beta * np.arange(n_half)
     spectrum = rms_coupling(beta, k0, gap_length, beam_radius, tunnel_radius)
-    spectrum = spectrum * np.exp(-(beta / (CUTOFF_WAVES * beta_e)) ** 4)
+    spectrum = spectrum * np.exp(-(beta / (cutoff_waves * beta_e)) ** 4)
     # g(z) = (1/pi) int_0^inf G(beta) cos(beta z) d beta; irfft gives
     # (1/n) [G_0 + 2 sum_k G_k cos(2 pi k m/n)] (real, even spectrum)
     g = np.fft.irfft(spectrum, n=N_FFT) * N_FFT * d_beta / (2.0 * np.pi)
@@ -129,8 +133,3 @@ def profile(frequency, u0, gap_length, beam_radius, tunnel_radius):
     inside = np.abs(z) <= half + 0.5 * dz
     return z[inside], g[inside]
 
-
-def half_width(frequency, u0, gap_length, beam_radius, tunnel_radius):
-    """Half-extent of the truncated profile of `profile`. [m]"""
-    z, _ = profile(frequency, u0, gap_length, beam_radius, tunnel_radius)
-    return float(z[-1])

@@ -141,7 +141,8 @@ def limiting_current(voltage, beam_radius, tunnel_radius):
     Bogdankevich and A. A. Rukhadze, Sov. Phys. Usp. 14, 163, 1971, from memory).
     """
     g = gamma(voltage)
-    return _ALFVEN * (g ** (2.0 / 3.0) - 1.0) ** 1.5 / (1.0 + 2.0 * np.log(tunnel_radius / beam_radius))
+    geometry = 1.0 + 2.0 * np.log(tunnel_radius / beam_radius)
+    return _ALFVEN * (g ** (2.0 / 3.0) - 1.0) ** 1.5 / geometry
 
 
 def _overlap_row(table):
@@ -267,7 +268,7 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
     for n in range(n_cav):
         d = table[n, GAP]
         for k, (fk, uk, bk, ak) in enumerate(uniq):
-            zg, gg = gapfield.profile(fk, uk, d, bk, ak)
+            zg, gg = gapfield.profile(fk, uk, d, bk, ak, acc.gap_steps / 4.0)
             profiles[n, k] = (zg, gg)
             half[n] = max(half[n], zg[-1])
     start, end = _segments(table, half)

@@ -137,7 +137,8 @@ def periodic_green(x, wavelength, beam_radius, tunnel_radius, gamma0=1.0):
     kappa = gamma0 * _P / tunnel_radius
     half = 0.5 * wavelength
     # sinh(k(L/2 - x))/sinh(k L/2), written with exponentials that cannot overflow
-    ratio = (np.exp(-kappa * x) - np.exp(-kappa * (2 * half - x))) / (1.0 - np.exp(-2 * kappa * half))
+    ratio = ((np.exp(-kappa * x) - np.exp(-kappa * (2 * half - x)))
+             / (1.0 - np.exp(-2 * kappa * half)))
     return np.sum(c * ratio, axis=-1) / (np.pi * sc.epsilon_0 * beam_radius**2)
 
 
