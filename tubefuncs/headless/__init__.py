@@ -17,14 +17,15 @@ for every cell.
 from __future__ import annotations
 
 from .compare import DEFAULT_ATOL, DEFAULT_RTOL, Comparison, compare, format_table
-from .engine import Plan, Recalculation, recalculate
+from .engine import Plan, Recalculation
 from .limits import DEFAULT_LIMITS, Limits, inspect_file
 from .problems import WorkbookError
+from .run import ENGINES, recalculate
 from .snapshot import read_snapshot, snapshot_path, write_snapshot
 from .writer import write_recalculated
 
 __all__ = [
-    "Comparison", "DEFAULT_ATOL", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
+    "Comparison", "DEFAULT_ATOL", "ENGINES", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
     "Recalculation", "WorkbookError", "check", "compare", "format_table", "inspect_file",
     "read_snapshot", "recalculate", "snapshot_path", "write_recalculated", "write_snapshot",
 ]

@@ -12,7 +12,7 @@ import os
 import tempfile
 
 from . import values as V
-from .engine import recalculate
+from .run import recalculate
 from .writer import write_recalculated
 
 CAUTIONS = (
