@@ -20,10 +20,9 @@ import math
 import re
 
 import numpy as np
-import pint
 
 
-def _registry() -> pint.UnitRegistry:
+def _registry():
     """The package's unit registry, from pint's on-disk definition cache when it can.
 
     Building the registry from pint's definition files costs about 0.3 s, a
@@ -31,15 +30,38 @@ def _registry() -> pint.UnitRegistry:
     user's cache folder) brings it to about 15 ms.  Where that folder cannot
     be used, the registry is built without it.
     """
+    import pint
+
     try:
-        return pint.UnitRegistry(cache_folder=":auto:")
+        registry = pint.UnitRegistry(cache_folder=":auto:")
     except Exception:  # unwritable cache folder, missing platformdirs, ...
-        return pint.UnitRegistry()
+        registry = pint.UnitRegistry()
+    # Perveance: the trade's unit is the perv (A/V^1.5); "uperv" is micro-perv.
+    registry.define("perv = ampere / volt ** 1.5")
+    return registry
 
 
-ureg = _registry()
-# Perveance: the trade's unit is the perv (A/V^1.5); "uperv" is micro-perv.
-ureg.define("perv = ampere / volt ** 1.5")
+class _Registry:
+    """:data:`ureg`: the one :class:`pint.UnitRegistry`, built on first use.
+
+    Importing pint and loading its definitions costs about 0.1 s, and most
+    recalculations read no unit text at all (numbers in SI need no pint).
+    """
+
+    __slots__ = ()
+    _built = None
+
+    def __getattr__(self, attr):
+        built = _Registry._built
+        if built is None:
+            built = _Registry._built = _registry()
+        return getattr(built, attr)
+
+    def __repr__(self) -> str:
+        return "<tubefuncs unit registry (pint)>"
+
+
+ureg = _Registry()
 
 #: Longest unit text accepted (a cell of unit text is short).
 MAX_TEXT = 64
