@@ -44,6 +44,12 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
+    from .limits import regular_file
+
+    if expected is not None:   # (a FIFO or device is refused before any work)
+        if not os.path.lexists(expected):
+            raise WorkbookError(f"{os.fspath(expected)}: no such expected-values file")
+        regular_file(os.fspath(expected), "expected-values file")
     recalc = recalculate(path, limits=limits, progress=progress, engine=engine)
     if expected is None and not recalc.book.has_cached_values and recalc.values:
         if fallback is not None and os.path.exists(fallback):
@@ -54,7 +60,7 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
                 f"last saved by a spreadsheet application) and no expected-values file; use "
                 f"--expected FILE, e.g. from 'tubefuncs snapshot'")
     if expected is not None:
-        wanted = read_snapshot(expected, recalc.book)
+        wanted = read_snapshot(expected, recalc.book, limits.max_expected_bytes)
         source = os.fspath(expected)
     else:
         wanted = recalc.cached_values()
