@@ -20,9 +20,8 @@ from .compare import DEFAULT_ATOL, DEFAULT_RTOL, Comparison, compare, format_tab
 from .engine import Plan, Recalculation
 from .limits import DEFAULT_LIMITS, Limits, inspect_file
 from .problems import WorkbookError
-from .run import ENGINES, recalculate
+from .run import ENGINES, recalculate, write_recalculated
 from .snapshot import read_snapshot, snapshot_path, write_snapshot
-from .writer import write_recalculated
 
 __all__ = [
     "Comparison", "DEFAULT_ATOL", "ENGINES", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
