@@ -57,7 +57,8 @@ V_, R_, A_, I_ = "V", "R", "A", "I"
 
 #: Standard functions whose arguments are not all ``V``.  Each entry lists the
 #: classes of the arguments in order; the last one repeats for further
-#: arguments.  Functions not listed take values in every position.
+#: arguments, or the group after ``|`` repeats (the range/criteria pairs of
+#: ``COUNTIFS``).  Functions not listed take values in every position.
 _TABLE_TEXT = """
 SUM R; AVERAGE R; AVERAGEA R; COUNT R; COUNTA R; COUNTBLANK R; MAX R; MAXA R; MIN R;
 MINA R; PRODUCT R; MEDIAN R; MODE R; MODE.SNGL R; MODE.MULT R; STDEV R; STDEV.S R;
@@ -67,8 +68,8 @@ AND R; OR R; XOR R; CONCAT R; NPV V R; TEXTJOIN V V R;
 LARGE R V; SMALL R V; PERCENTILE R V; PERCENTILE.INC R V; PERCENTILE.EXC R V;
 QUARTILE R V; QUARTILE.INC R V; QUARTILE.EXC R V; RANK V R V; RANK.EQ V R V;
 RANK.AVG V R V; PERCENTRANK R V V; TRIMMEAN R V;
-COUNTIF R V; SUMIF R V R; AVERAGEIF R V R; COUNTIFS R V; SUMIFS R R V;
-AVERAGEIFS R R V; MAXIFS R R V; MINIFS R R V;
+COUNTIF R V; SUMIF R V R; AVERAGEIF R V R; COUNTIFS | R V; SUMIFS R | R V;
+AVERAGEIFS R | R V; MAXIFS R | R V; MINIFS R | R V;
 VLOOKUP V R V V; HLOOKUP V R V V; MATCH V R V; INDEX A V V V; AREAS R;
 ROW R; COLUMN R; ROWS R; COLUMNS R; SUBTOTAL V R;
 IF V I; CHOOSE V I;
@@ -88,7 +89,11 @@ def _parse_table(text: str) -> dict:
     for entry in text.replace("\n", " ").split(";"):
         words = entry.split()
         if words:
-            out[words[0]] = tuple(words[1:])
+            classes = words[1:]
+            if "|" not in classes:
+                classes = classes[:-1] + ["|"] + classes[-1:]
+            k = classes.index("|")
+            out[words[0]] = (tuple(classes[:k]), tuple(classes[k + 1:]))
     return out
 
 
@@ -114,10 +119,13 @@ def param_class(name: str, index: int) -> str:
         return R_
     if bare == "SINGLE":            # the @ operator: it intersects its reference itself
         return R_
-    classes = STANDARD.get(bare)
-    if not classes:
+    entry = STANDARD.get(bare)
+    if entry is None:
         return V_
-    return classes[min(index, len(classes) - 1)]
+    fixed, cycle = entry
+    if index < len(fixed):
+        return fixed[index]
+    return cycle[(index - len(fixed)) % len(cycle)]
 
 
 _REF_OPS = (":", " ", ",")
