@@ -31,10 +31,13 @@ __all__ = [
 
 
 def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
-          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast"):
+          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast",
+          accept_names=()):
     """Recalculate ``path`` and compare: ``(Recalculation, Comparison, source)``.
 
     ``engine``: as for :func:`recalculate` (``"fast"`` or ``"general"``).
+    ``accept_names``: cells (``Budget!B7``, ``B7``), functions or defined names
+    whose ``#NAME?`` does not fail the comparison (every other one does).
 
     ``expected``: an expected-values file.  Without it, the values a
     spreadsheet application cached in the workbook; when it has none, the
@@ -43,6 +46,12 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
+    from .compare import check_tolerances
+
+    try:
+        check_tolerances(rtol, atol)
+    except ValueError as exc:
+        raise WorkbookError(str(exc)) from None
     recalc = recalculate(path, limits=limits, progress=progress, engine=engine)
     if expected is None and not recalc.book.has_cached_values and recalc.values:
         if fallback is not None and os.path.exists(fallback):
@@ -58,4 +67,5 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     else:
         wanted = recalc.cached_values()
         source = "values cached in the workbook"
-    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol), source
+    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol,
+                           accept_names=accept_names), source

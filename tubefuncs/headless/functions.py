@@ -279,8 +279,17 @@ def resolve(written: str) -> Resolution:
                           f"{written}: unknown function from another workbook or add-in")
     if bare.startswith("TUBE_"):
         return Resolution("unknown", None, bare,
-                          f"{bare} is not a tubefuncs function (see TUBE_HELP or the docs)")
+                          f"{bare} is not a tubefuncs function{_nearest(bare)} "
+                          f"(see TUBE_HELP or the docs)")
     return Resolution("unknown", None, bare, f"unknown function {bare}")
+
+
+def _nearest(name: str) -> str:
+    """``"; did you mean TUBE_PERVEANCE?"`` for a misspelt catalogue name ('' if none is near)."""
+    import difflib
+
+    close = difflib.get_close_matches(name, sorted(catalogue_names()), n=1, cutoff=0.75)
+    return f"; did you mean {close[0]}?" if close else ""
 
 
 def reference_function(name: str, args: list, host, env=None) -> object:
