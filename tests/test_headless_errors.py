@@ -97,9 +97,9 @@ def test_recalc_lists_error_cells_and_counts_like_check(tmp_path, capsys):
 def test_outputs_into_a_missing_folder_are_refused_before_work(tmp_path, capsys):
     path = make_book(tmp_path / "b.xlsx", {"S": {"A1": "=1+1"}})
     code, _, err = run(capsys, "recalc", path, "-o", tmp_path / "nope" / "out.xlsx")
-    assert code == 2 and "does not exist" in err
+    assert code == 2 and "no such folder" in err
     code, _, err = run(capsys, "snapshot", path, "-o", tmp_path / "nope" / "s.tsv")
-    assert code == 2 and "does not exist" in err
+    assert code == 2 and "no such folder" in err
 
 
 def test_front_end_error_text_is_the_error_value():

@@ -74,22 +74,6 @@ def _row_count(text: str) -> int:
     return value
 
 
-def output_folder_problem(path) -> str:
-    """Why an output cannot be written at ``path`` ('' when it can): the folder must exist."""
-    folder = os.path.dirname(os.path.abspath(os.fspath(path)))
-    if not os.path.isdir(folder):
-        return f"{path}: the folder {folder} does not exist (create it first)"
-    return ""
-
-
-def _check_output(path) -> None:
-    from .headless.problems import WorkbookError
-
-    problem = output_folder_problem(path)
-    if problem:
-        raise WorkbookError(problem)
-
-
 def _limits(args):
     from dataclasses import replace
 
@@ -189,14 +173,15 @@ def _say_error_cells(recalc, limit, out) -> None:
 
 def cmd_recalc(args) -> int:
     from .headless import recalculate, write_recalculated
+    from .headless.writer import check_output
 
-    _check_output(args.output)
+    check_output(args.output, [args.book])   # (refused before any work)
     with _progress(os.path.basename(args.book)) as progress:
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
                              engine=args.engine)
         progress.phase("writing")
         out = write_recalculated(recalc, args.output)
-    errors = sum(1 for v in recalc.values.values() if _is_error(v))
+    errors = _count_errors(recalc)
     print(f"recalculated {_cells(recalc)} of {args.book} "
           f"({errors} error value(s)); wrote {out}")
     _say_error_cells(recalc, args.max_rows or None, sys.stdout)
@@ -204,10 +189,11 @@ def cmd_recalc(args) -> int:
     return EXIT_OK
 
 
-def _is_error(value) -> bool:
+def _count_errors(recalc) -> int:
+    """Error values among the computed values (one C-level pass, no call per cell)."""
     from .headless import values as V
 
-    return V.is_error(value)
+    return sum(map(V.is_error, recalc.values.values()))
 
 
 def cmd_check(args) -> int:
@@ -239,8 +225,9 @@ def cmd_check(args) -> int:
 def cmd_snapshot(args) -> int:
     from .headless import recalculate, snapshot_path, write_snapshot
     from .headless.snapshot import name_warnings
+    from .headless.writer import check_output
 
-    _check_output(args.output or snapshot_path(args.book))
+    check_output(args.output or snapshot_path(args.book), [args.book])   # (before any work)
     with _progress(os.path.basename(args.book)) as progress:
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
                              engine=args.engine)
@@ -293,6 +280,10 @@ def main(argv=None) -> int:
         return COMMANDS[args.command](args)
     except WorkbookError as exc:
         print(f"tubefuncs {args.command}: {exc.message}", file=sys.stderr)
+        return EXIT_UNUSABLE
+    except MemoryError:
+        print(f"tubefuncs {args.command}: out of memory; the workbook needs more memory than "
+              f"this machine gives (lower the limits, e.g. --max-cells)", file=sys.stderr)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:
         print("tubefuncs: interrupted", file=sys.stderr)

@@ -325,9 +325,13 @@ def run(args) -> int:
     if not args.drop > 0:
         raise PlotInputError(f"--drop must be > 0 dB (got {args.drop:g})")
     output = Path(args.output) if args.output else Path(Path(args.table).stem + "_gain.png")
-    folder = output.resolve().parent
-    if not folder.is_dir():
-        raise PlotInputError(f"{output}: the folder {folder} does not exist (create it first)")
+    from .headless.problems import WorkbookError
+    from .headless.writer import check_output
+
+    try:
+        check_output(output, [args.table])     # the same refusals as recalc, before any work
+    except WorkbookError as exc:
+        raise PlotInputError(exc.message) from None
     cavities = read_table(args.table, args.range)
     table_problems = gain.validate_cavities(cavities)
     if table_problems:
