@@ -51,6 +51,7 @@ from __future__ import annotations
 import functools
 
 from . import values as V
+from .catalogue_bridge import strip_udf_prefix
 from .references import Area
 
 V_, R_, A_, I_ = "V", "R", "A", "I"
@@ -153,13 +154,10 @@ def _walk(node, position: str):
         return ("bin", node[1], _walk(node[2], V_), _walk(node[3], V_))
     if kind == "call":
         name = node[1]
-        from .functions import resolve
-
-        resolved = resolve(name)
-        target = resolved.target if resolved.kind == "catalogue" else resolved.name
+        target = strip_udf_prefix(name.upper())     # _xlfn., _xludf., add-in paths
         args = []
         for i, arg in enumerate(node[2]):
-            cls = param_class(target or name, i)
+            cls = param_class(target, i)
             if cls == I_:
                 cls = position
             if cls == A_:
