@@ -69,7 +69,7 @@ class Accuracy:
     gap_steps: float = 32.0
     drift_steps_plasma: float = 48.0
     drift_steps_wave: float = 2.0
-    tol: float = 1e-7
+    tol: float = 1e-6
     max_iter: int = 40
 
 
@@ -343,7 +343,7 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
                                   susceptance)
         source = source0 if n == 0 else np.zeros(n_pts)
         vn, i_n, beam, conv = circuit.solve_gap(gap_pass, z_cav, source + 0j, v,
-                                               acc.tol, acc.max_iter)
+                                               acc.tol, acc.max_iter, i_probe / probe)
         if record:
             _, beam = gap_pass(vn, rec=True)
         volts[n], amps[n] = vn, i_n
@@ -360,6 +360,7 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
             for m in range(nd):
                 sums = beam.step(step)
                 keep(end[n] + step * (m + 0.5), sums, beam)
+            beam.check_low()
             stalled = (status == OK) & beam.stalled()
             status[stalled], cav[stalled] = STALLED, n + 1
 
