@@ -131,7 +131,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", default="tubefuncs-demo-out.xlsx", metavar="OUT",
                    help="where to write the recalculated copy (default %(default)s)")
 
-    sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot)", add_help=False)
+    sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot); 'plot transfer' and 'plot "
+                   "applegate': large-signal plots (tubefuncs.largesignal_plot)", add_help=False)
     sub.add_parser("excel-setup", help="set up the Excel add-in (tubefuncs.excel.setup)",
                    add_help=False)
     return parser
@@ -267,6 +268,8 @@ DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setu
 
 def main(argv=None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
+    if argv[:1] == ["plot"] and argv[1:2] and argv[1] in ("transfer", "applegate"):
+        return _delegate("tubefuncs.largesignal_plot", argv[1:])
     if argv and argv[0] in DELEGATED:
         return _delegate(DELEGATED[argv[0]], argv[1:])
     parser = build_parser()
