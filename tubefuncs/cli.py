@@ -12,8 +12,9 @@ Subcommands:
     write BOOK's expected-values file (``BOOK.expected.tsv`` beside it).
 ``demo``
     recalculate the bundled RF-station workbook and print its budget.
-``plot``, ``excel-setup``
-    handed to :mod:`tubefuncs.gain_plot` and :mod:`tubefuncs.excel.setup`.
+``plot``, ``excel-setup``, ``sweep``
+    handed to :mod:`tubefuncs.gain_plot`, :mod:`tubefuncs.excel.setup` and
+    :mod:`tubefuncs.sweeps.cli`.
 
 Exit status: 0 success/match, 1 mismatch, 2 unusable input or usage error,
 3 internal error (set ``TUBEFUNCS_DEBUG=1`` for the traceback).
@@ -104,6 +105,8 @@ def build_parser() -> argparse.ArgumentParser:
     sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot)", add_help=False)
     sub.add_parser("excel-setup", help="set up the Excel add-in (tubefuncs.excel.setup)",
                    add_help=False)
+    sub.add_parser("sweep", help="grid or tolerance study on dask (tubefuncs.sweeps)",
+                   add_help=False)
     return parser
 
 
@@ -193,7 +196,8 @@ def _delegate(module: str, argv) -> int:
 
 COMMANDS = {"recalc": cmd_recalc, "check": cmd_check, "snapshot": cmd_snapshot,
             "demo": cmd_demo}
-DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup"}
+DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup",
+             "sweep": "tubefuncs.sweeps.cli"}
 
 
 def main(argv=None) -> int:
