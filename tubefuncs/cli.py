@@ -76,6 +76,10 @@ def build_parser() -> argparse.ArgumentParser:
                    help="where to write the recalculated copy")
     _limits_options(p)
     _engine_option(p)
+    p.add_argument("--dask", nargs="?", const="local", metavar="ADDRESS",
+                   help="hand the catalogue calls of large filled-down columns to dask "
+                        "(tubefuncs.sweeps; same values): this machine, or the address of "
+                        "a dask.distributed scheduler")
 
     p = sub.add_parser("check", help="recalculate and compare with expected values")
     p.add_argument("book", metavar="BOOK")
@@ -126,7 +130,7 @@ def _say_name_errors(recalc, out) -> None:
 def cmd_recalc(args) -> int:
     from .headless import recalculate, write_recalculated
 
-    with _progress(os.path.basename(args.book)) as progress:
+    with _progress(os.path.basename(args.book)) as progress, _on_dask(args.dask):
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
                              engine=args.engine)
         progress.phase("writing")
@@ -136,6 +140,17 @@ def cmd_recalc(args) -> int:
           f"({errors} error value(s)); wrote {out}")
     _say_name_errors(recalc, sys.stdout)
     return EXIT_OK
+
+
+def _on_dask(address):
+    """Context of ``recalc --dask``: large catalogue groups on dask (tubefuncs.sweeps)."""
+    if address is None:
+        import contextlib
+
+        return contextlib.nullcontext()
+    from .sweeps.recalc import dask_groups
+
+    return dask_groups(address)
 
 
 def _is_error(value) -> bool:

@@ -56,7 +56,6 @@ import os
 import re
 import zlib
 from dataclasses import dataclass, field
-from typing import Any
 
 import numpy as np
 
