@@ -95,6 +95,20 @@ def test_grid_rows_match_independent_formula_and_keep_error_rows():
             assert yi == pytest.approx(transit_angle_deg(fi, 12e-3, vi), rel=1e-12)
 
 
+def test_grid_points_follow_numpy_c_order_in_any_chunk():
+    raw = grid_study()
+    raw["grid"] = {"frequency": [1e9, 2e9, 3e9], "voltage": [1e3, 2e3, 3e3, 4e3, 5e3],
+                   "length": [1e-3, 2e-3]}
+    raw["fixed"] = {}
+    study = build_study(raw)
+    digits = np.unravel_index(np.arange(30), (3, 5, 2))     # numpy's own C order
+    for a in range(30):
+        for b in range(a + 1, 31):
+            x = inputs(study, a, b)
+            for key, d in zip(("frequency", "voltage", "length"), digits):
+                assert np.array_equal(x[key], np.asarray(raw["grid"][key])[d[a:b]])
+
+
 def test_every_row_equals_the_worksheet_call_of_that_point_alone():
     t = run_sweep(build_study(grid_study()), scheduler="threads").table
     for row in t.to_pylist():

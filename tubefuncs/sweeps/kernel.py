@@ -43,6 +43,19 @@ def _draws(study: Study, var, a: int, b: int, width: int) -> np.ndarray:
     return out
 
 
+def _axis(grid: np.ndarray, stride: int, a: int, b: int) -> np.ndarray:
+    """Values of one grid axis for points a..b-1 (C order: point // stride % size),
+    built by repeating rather than dividing point numbers."""
+    size = grid.size
+    if stride == 1:
+        return np.resize(np.roll(grid, -(a % size)), b - a)
+    q0, q1 = a // stride, (b - 1) // stride
+    counts = np.full(q1 - q0 + 1, stride, dtype=np.int64)
+    counts[0] -= a - q0 * stride
+    counts[-1] -= (q1 + 1) * stride - b
+    return np.repeat(grid[np.arange(q0, q1 + 1) % size], counts)
+
+
 def inputs(study: Study, a: int, b: int) -> dict:
     """Values of every variable for points a..b-1.
 
@@ -52,9 +65,11 @@ def inputs(study: Study, a: int, b: int) -> dict:
     n = b - a
     values = {}
     if study.mode == "grid":
-        digits = np.unravel_index(np.arange(a, b, dtype=np.int64), study.grid_shape)
-        for var, d in zip(study.variables, digits):
-            values[var.key] = np.asarray(var.grid, dtype=float)[d]
+        shape = study.grid_shape
+        stride = 1
+        for var, size in reversed(list(zip(study.variables, shape))):
+            values[var.key] = _axis(study.grid_values(var), stride, a, b)
+            stride *= size
         return values
     for var in study.variables:
         if var.col is None:
@@ -140,37 +155,60 @@ def _one(name, fn, args, i, unit):
 
 
 def evaluate_result(study: Study, result, values: dict, n: int):
-    """(values (n,), errors: object array of text or None) of one result column."""
+    """(values (n,), {point: error text}) of one result column (chunk-relative points)."""
     fn = lookup(result.function)
     args = arguments(study, result, values, n)
     per_point = (fn.returns_text or fn.result_kind != "broadcast"
                  or any(isinstance(a, np.ndarray) and a.ndim == 3 for a in args))
-    out = np.full(n, np.nan)
-    errors = np.full(n, None, dtype=object)
+    errors: dict[int, str] = {}
     if per_point:
+        out = np.full(n, np.nan)
         for i in range(n):
-            out[i], errors[i] = _one(fn.name, fn, args, i, result.unit)
+            out[i], err = _one(fn.name, fn, args, i, result.unit)
+            if err is not None:
+                errors[i] = err
         return out, errors
-    _vector(fn, args, result.unit, np.arange(n), out, errors)
+    out = np.empty(n)
+    # grid axes whose every value is inside this parameter's domain need no check per point
+    key = ("trusted", result.name)
+    trusted = study.cache.get(key)
+    if trusted is None:
+        trusted = study.cache[key] = frozenset(
+            v.param for v in study.variables if study.mode == "grid" and v.col is None
+            and v.param not in result.args
+            and bool(_param(fn, v.param).domain.ok(study.grid_values(v)).all()))
+    _vector(fn, args, result.unit, None, n, out, errors, trusted)
     return out, errors
 
 
-def _vector(fn, args, unit, idx, out, errors):
-    """Vector evaluation of the points ``idx``; halves the set when the physics
-    raises on it, down to single points through the worksheet layer."""
-    n = idx.size
-    if n <= 4:
+def _param(fn, name):
+    for p in fn.params:
+        if p.name == name:
+            return p
+    raise KeyError(name)
+
+
+def _vector(fn, args, unit, idx, n, out, errors, trusted=frozenset()):
+    """Vector evaluation of the points ``idx`` (None: all n); halves the set when the
+    physics raises on it, down to single points through the worksheet layer."""
+    if idx is not None and idx.size <= 4:
         for i in idx.tolist():
-            out[i], errors[i] = _one(fn.name, fn, args, i, unit)
+            _put(out, errors, i, _one(fn.name, fn, args, i, unit))
         return
+    m = n if idx is None else idx.size
     call = []
-    ok = np.ones((n, 1), dtype=bool)
+    ok = None
     for p, a in zip(fn.params, args):
         if isinstance(a, np.ndarray) and p.kind == "number":
-            col = a[idx].reshape(n, 1)
+            col = (a if idx is None else a[idx]).reshape(m, 1)
+            if p.name in trusted:
+                call.append(col)
+                continue
             good = p.domain.ok(col)
-            ok &= good
-            call.append(np.where(good, col, np.nan))
+            if not good.all():
+                col = np.where(good, col, np.nan)
+                ok = good if ok is None else ok & good
+            call.append(col)
         else:
             call.append(a)
     names = [p.name for p in fn.params]
@@ -178,24 +216,54 @@ def _vector(fn, args, unit, idx, out, errors):
         operands = [call[names.index(a)] for a in check.args]
         if any(op is None for op in operands):
             continue
-        ok &= np.broadcast_to(worksheet._check_mask(check, operands), (n, 1))
+        mask = worksheet._check_mask(check, operands)
+        if not mask.all():
+            mask = np.broadcast_to(mask, (m, 1))
+            ok = mask if ok is None else ok & mask
     try:
         with np.errstate(all="ignore"):
-            res = fn.func(*call)
-            res = np.asarray(res, dtype=float)
+            res = np.asarray(fn.func(*call), dtype=float)
             if unit:
                 res = np.asarray(apply_converter(result_converter(unit, fn.result_unit), res),
                                  dtype=float)
-        res = np.broadcast_to(res, (n, 1)).reshape(n)
+        res = np.broadcast_to(res, (m, 1)).reshape(m)
     except Exception:  # noqa: BLE001  (find the points that make the physics raise)
-        half = n // 2
-        _vector(fn, args, unit, idx[:half], out, errors)
-        _vector(fn, args, unit, idx[half:], out, errors)
+        idx = np.arange(n) if idx is None else idx
+        half = idx.size // 2
+        _vector(fn, args, unit, idx[:half], n, out, errors, trusted)
+        _vector(fn, args, unit, idx[half:], n, out, errors, trusted)
         return
-    out[idx] = res
-    bad = ~ok.reshape(n) | ~np.isfinite(res)
-    for i in idx[bad].tolist():
-        out[i], errors[i] = _one(fn.name, fn, args, i, unit)
+    if idx is None:
+        out[:] = res
+    else:
+        out[idx] = res
+    finite = np.isfinite(res)
+    bad = ~finite if ok is None else ~(finite & ok.reshape(m))
+    if bad.any():
+        where = np.flatnonzero(bad) if idx is None else idx[bad]
+        for i in where.tolist():
+            _put(out, errors, i, _one(fn.name, fn, args, i, unit))
+
+
+def _put(out, errors, i, value_error):
+    out[i], err = value_error
+    if err is not None:
+        errors[i] = err
+
+
+def _result_columns(cols, name, y, errors, n):
+    """The value column (null where the point failed) and its error-text column."""
+    if not errors:
+        cols[name] = pa.array(y)
+        cols[f"{name}_error"] = pa.nulls(n, pa.string())
+        return
+    text = np.full(n, None, dtype=object)
+    for i, e in errors.items():
+        text[i] = e
+    mask = np.zeros(n, dtype=bool)
+    mask[list(errors)] = True
+    cols[name] = pa.array(y, mask=mask)
+    cols[f"{name}_error"] = pa.array(text, type=pa.string())
 
 
 def run_chunk(study: Study, k: int) -> pa.Table:
@@ -213,8 +281,7 @@ def run_chunk(study: Study, k: int) -> pa.Table:
             cols[var.key] = pa.array(x)
     for result in study.results:
         y, err = evaluate_result(study, result, values, n)
-        cols[result.name] = pa.array(y, mask=np.not_equal(err, None).astype(bool))
-        cols[f"{result.name}_error"] = pa.array(err, type=pa.string())
+        _result_columns(cols, result.name, y, err, n)
     return pa.table(cols)
 
 

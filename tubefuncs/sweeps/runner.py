@@ -172,7 +172,8 @@ class _Progress:
 
 def run_sweep(study: Study, folder: str | None = None, *, scheduler=None,
               workers: int | None = None, fresh: bool = False, progress: bool | None = None,
-              window: int | None = None, xlsx: bool | None = None) -> SweepResult:
+              window: int | None = None, xlsx: bool | None = None,
+              summary: bool = True) -> SweepResult:
     """Evaluate a study.
 
     folder : where chunks and the outputs go (``results.parquet``,
@@ -185,6 +186,8 @@ def run_sweep(study: Study, folder: str | None = None, *, scheduler=None,
     workers : local threads or processes (default: the machine's cores).
     fresh : discard the chunks of a folder instead of resuming from them.
     progress : a progress bar on standard error (default: when it is a terminal).
+    summary : compute the summary of a table kept in memory (a folder's sweep
+        always writes its summary).
     """
     if workers is not None and workers < 1:
         raise StudyError(f"workers must be >= 1 (got {workers})")
@@ -212,8 +215,8 @@ def run_sweep(study: Study, folder: str | None = None, *, scheduler=None,
             if tables else None
         from .output import summarise
 
-        summary = summarise(study, [table] if table is not None else [])
-        return SweepResult(study, summary, None, table, {}, resumed, failed, name)
+        stats = summarise(study, [table] if table is not None else []) if summary else {}
+        return SweepResult(study, stats, None, table, {}, resumed, failed, name)
     from .output import assemble
 
     files, summary = assemble(study, folder, xlsx=xlsx)
@@ -229,10 +232,12 @@ def _run_local(study, todo, folder, scheduler, workers, bar, tables):
 
     if not todo:
         return
+    # the study goes into the graph once, as one opaque value (not traversed)
+    held = dask.delayed(study, traverse=False)
     if folder is None:
-        tasks = [dask.delayed(compute_chunk, pure=False)(study, k) for k in todo]
+        tasks = [dask.delayed(compute_chunk, pure=False)(held, k) for k in todo]
     else:
-        tasks = [dask.delayed(write_chunk, pure=False)(study, k, folder) for k in todo]
+        tasks = [dask.delayed(write_chunk, pure=False)(held, k, folder) for k in todo]
 
     def posttask(key, result, dsk, state, worker_id):
         bar.step()

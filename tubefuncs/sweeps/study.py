@@ -71,7 +71,7 @@ CAVITY_UNITS = ("m", "Hz", "ohm", "", "", "m")
 MAX_POINTS = 100_000_000        # refused beyond this (a typo in `steps` must not hang)
 MAX_GRID_AXIS = 10_000_000
 MAX_TABLE_ROWS = 1000
-DEFAULT_CHUNK = 50_000           # vectorised kernels
+DEFAULT_CHUNK = 100_000          # vectorised kernels
 DEFAULT_CHUNK_PER_POINT = 200    # per-point kernels (cavity tables that vary, slow models)
 DEFAULT_QUANTILES = (0.01, 0.05, 0.25, 0.5, 0.75, 0.95, 0.99)
 SECTIONS = ("sweep", "results", "fixed", "grid", "tolerance", "limits", "summary")
@@ -133,6 +133,14 @@ class Study:
     per_point: bool                   # some result needs one worksheet call per point
     slow: bool                        # some result is a slow (large-signal) model
     description: dict = field(default_factory=dict, repr=False)
+    cache: dict = field(default_factory=dict, repr=False, compare=False)
+
+    def grid_values(self, var: Variable) -> np.ndarray:
+        """A grid axis's values as an array (made once)."""
+        key = ("grid", var.key)
+        if key not in self.cache:
+            self.cache[key] = np.asarray(var.grid, dtype=float)
+        return self.cache[key]
 
     @property
     def grid_shape(self) -> tuple[int, ...]:
