@@ -19,6 +19,7 @@ from openpyxl.utils.cell import coordinate_to_tuple
 from . import values as V
 from .evaluate import AreaOperand, Env, ErrorOperand, NameOperand, SequentialEvaluator, spill
 from .formula import compile_formula
+from .gcpause import gc_paused
 from .graph import Graph
 from .limits import DEFAULT_LIMITS, Limits
 from .loader import Book, load_book
@@ -137,7 +138,8 @@ class Plan:
         if sheet_name is not None and area is not None:
             operand = self._operand(definition, home, depth + 1)
         else:
-            compiled, texts = compile_formula("=" + definition)
+            # A name's expression is evaluated once, as an array (not per calling cell)
+            compiled, texts = compile_formula("=" + definition, array=True)
             slots = [self._operand(t, home, depth + 1) for t in texts]
             operand = NameOperand(name, compiled, slots)
         self._names[key] = operand
@@ -162,7 +164,7 @@ class Plan:
         for anchor, cell, block in pending:
             if anchor not in graph.owner or graph.owner[anchor] != anchor:
                 continue  # inside another array formula's block
-            compiled, texts = compile_formula(cell.text)
+            compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
             slots = [self._operand(t, anchor[0]) for t in texts]
             self.cells[anchor] = (compiled, slots, block)
             self._note_names(anchor, compiled, slots)
@@ -250,24 +252,17 @@ class Plan:
 
 
 
-ENGINES = ("fast", "general")
+def recalculate_general(path, limits: Limits = DEFAULT_LIMITS, progress=None,
+                        evaluator=None) -> Recalculation:
+    """The general engine: every formula cell compiled and evaluated on its own.
 
-
-def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
-                evaluator=None, engine: str = "fast") -> Recalculation:
-    """Load, compile and evaluate every formula of a workbook (the file is only read).
-
-    ``engine``: ``"fast"`` (default) evaluates same-shape formula cells together
-    as numpy vectors (:mod:`tubefuncs.headless.vector`) and hands everything
-    else to the general engine; ``"general"`` evaluates every cell on its own.
-    Both give the same values.  An explicit ``evaluator`` runs the general plan.
+    :func:`tubefuncs.headless.recalculate` chooses between this and the fast path.
     """
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)} (got {engine!r})")
-    if engine == "fast" and evaluator is None:  # --- fast path hook (issue 6)
-        from .vector import recalculate_fast
+    with gc_paused():
+        return _recalculate_general(path, limits, progress, evaluator)
 
-        return recalculate_fast(path, limits=limits, progress=progress)
+
+def _recalculate_general(path, limits: Limits, progress, evaluator) -> Recalculation:
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")
