@@ -17,24 +17,27 @@ for every cell.
 from __future__ import annotations
 
 from .compare import DEFAULT_ATOL, DEFAULT_RTOL, Comparison, compare, format_table
-from .engine import Plan, Recalculation, recalculate
+from .engine import Plan, Recalculation
 from .limits import DEFAULT_LIMITS, Limits, inspect_file
 from .problems import WorkbookError
+from .run import ENGINES, recalculate, write_recalculated
 from .snapshot import read_snapshot, snapshot_path, write_snapshot
-from .writer import write_recalculated
 
 __all__ = [
-    "Comparison", "DEFAULT_ATOL", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
+    "Comparison", "DEFAULT_ATOL", "ENGINES", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
     "Recalculation", "WorkbookError", "check", "compare", "format_table", "inspect_file",
     "read_snapshot", "recalculate", "snapshot_path", "write_recalculated", "write_snapshot",
 ]
 
 
 def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
-          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast"):
+          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast",
+          accept_names=()):
     """Recalculate ``path`` and compare: ``(Recalculation, Comparison, source)``.
 
     ``engine``: as for :func:`recalculate` (``"fast"`` or ``"general"``).
+    ``accept_names``: cells (``Budget!B7``, ``B7``), functions or defined names
+    whose ``#NAME?`` does not fail the comparison (every other one does).
 
     ``expected``: an expected-values file.  Without it, the values a
     spreadsheet application cached in the workbook; when it has none, the
@@ -43,7 +46,13 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
+    from .compare import check_tolerances
     from .limits import regular_file
+
+    try:
+        check_tolerances(rtol, atol)
+    except ValueError as exc:
+        raise WorkbookError(str(exc)) from None
 
     if expected is not None:   # (a FIFO or device is refused before any work)
         if not os.path.lexists(expected):
@@ -64,4 +73,5 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     else:
         wanted = recalc.cached_values()
         source = "values cached in the workbook"
-    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol), source
+    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol,
+                           accept_names=accept_names), source

@@ -27,11 +27,19 @@ from .evaluate import (
     spill,
 )
 from .formula import compile_formula
+from .gcpause import gc_paused
 from .graph import Graph
 from .limits import DEFAULT_LIMITS, Limits
 from .loader import Book, load_book
 from .problems import WorkbookError
 from .references import area_text, cell_text, looks_like_name, parse_area, split_sheet
+
+#: A defined name deeper than this (a name defined by a name ...) is #NAME?.
+MAX_NAME_DEPTH = 100
+#: Functions whose value depends on the calling cell or the moment: a defined
+#: name using one is evaluated at every use, in the calling cell's context.
+HOST_FUNCTIONS = frozenset({"ROW", "COLUMN", "SINGLE", "RAND", "RANDBETWEEN", "NOW", "TODAY",
+                            "RANDARRAY"})
 
 
 @dataclass
@@ -162,7 +170,9 @@ class Plan:
         area = parse_area(body.replace("$", ""), "")
         if sheet_name is not None and area is not None:
             return self._operand(definition, home, depth + 1)
-        compiled, texts = compile_formula("=" + definition)
+        # A name's expression is evaluated as an array (not intersected with the
+        # calling cell); once, unless it uses ROW(), RAND()...: then at every use.
+        compiled, texts = compile_formula("=" + definition, array=True)
         slots = position_only(compiled, [self._operand(t, home, depth + 1) for t in texts])
         per_use = bool(HOST_FUNCTIONS.intersection(compiled.functions)) or any(
             getattr(sl, "per_use", False) for sl in slots)
@@ -187,7 +197,7 @@ class Plan:
         for anchor, cell, block in pending:
             if anchor not in graph.owner or graph.owner[anchor] != anchor:
                 continue  # inside another array formula's block
-            compiled, texts = compile_formula(cell.text)
+            compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
             slots = position_only(compiled, [self._operand(t, anchor[0]) for t in texts])
             self.cells[anchor] = (compiled, slots, block)
             self._note_names(anchor, compiled, slots)
@@ -275,31 +285,17 @@ class Plan:
 
 
 
-ENGINES = ("fast", "general")
+def recalculate_general(path, limits: Limits = DEFAULT_LIMITS, progress=None,
+                        evaluator=None) -> Recalculation:
+    """The general engine: every formula cell compiled and evaluated on its own.
 
-#: A defined name deeper than this (a name defined by a name ...) is #NAME?.
-MAX_NAME_DEPTH = 100
-#: Functions whose value depends on the calling cell or the moment: a defined
-#: name using one is evaluated at every use, in the calling cell's context.
-HOST_FUNCTIONS = frozenset({"ROW", "COLUMN", "SINGLE", "RAND", "RANDBETWEEN", "NOW", "TODAY",
-                            "RANDARRAY"})
-
-
-def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
-                evaluator=None, engine: str = "fast") -> Recalculation:
-    """Load, compile and evaluate every formula of a workbook (the file is only read).
-
-    ``engine``: ``"fast"`` (default) evaluates same-shape formula cells together
-    as numpy vectors (:mod:`tubefuncs.headless.vector`) and hands everything
-    else to the general engine; ``"general"`` evaluates every cell on its own.
-    Both give the same values.  An explicit ``evaluator`` runs the general plan.
+    :func:`tubefuncs.headless.recalculate` chooses between this and the fast path.
     """
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)} (got {engine!r})")
-    if engine == "fast" and evaluator is None:  # --- fast path hook (issue 6)
-        from .vector import recalculate_fast
+    with gc_paused():
+        return _recalculate_general(path, limits, progress, evaluator)
 
-        return recalculate_fast(path, limits=limits, progress=progress)
+
+def _recalculate_general(path, limits: Limits, progress, evaluator) -> Recalculation:
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")

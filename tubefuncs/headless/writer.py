@@ -153,8 +153,10 @@ def _same_file(a, b) -> bool:
         return os.path.abspath(a) == os.path.abspath(b)
 
 
-def write_recalculated(recalc, out_path) -> str:
-    """Copy of the workbook in which every formula cell holds its computed value.
+def write_openpyxl(recalc, out_path) -> str:
+    """Copy of the workbook in which every formula cell holds its computed value,
+    written by openpyxl (the general writer; :func:`tubefuncs.headless.write_recalculated`
+    uses the fast one where it can).
 
     Formatting, names and other sheets' content are kept as openpyxl keeps
     them (charts and images are not carried over by openpyxl).  VBA of an
@@ -164,14 +166,6 @@ def write_recalculated(recalc, out_path) -> str:
 
     src = recalc.book.path
     out_path = check_output(out_path, [src])
-    if getattr(recalc, "engine", "general") == "fast":   # --- fast path hook (issue 6)
-        from .vector.writer import write_fast
-
-        try:
-            if write_fast(recalc, out_path) is not None:
-                return out_path
-        except OSError as exc:
-            raise WorkbookError(f"{out_path}: cannot write ({exc.strerror or exc})") from None
     keep_vba = out_path.lower().endswith(".xlsm")
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")

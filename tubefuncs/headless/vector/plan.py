@@ -28,9 +28,7 @@ its message are the general engine's.
 from __future__ import annotations
 
 import bisect
-import contextlib
 import functools
-import gc
 import itertools
 import operator
 import re
@@ -40,9 +38,10 @@ from collections import defaultdict, deque
 import numpy as np
 
 from .. import values as V
-from ..engine import Plan, Recalculation
+from ..engine import Plan, Recalculation, recalculate_general
 from ..evaluate import AreaOperand, Env, ErrorOperand, position_only
-from ..formula import _Parser, compile_skeleton, skeleton, tokenize
+from ..formula import compile_skeleton, parse_tree, skeleton, tokenize
+from ..gcpause import gc_paused
 from ..graph import Graph
 from ..limits import DEFAULT_LIMITS, Limits
 from ..problems import WorkbookError
@@ -65,7 +64,8 @@ class _UseGeneral(Exception):
 
 @functools.lru_cache(maxsize=4096)
 def _shape(text: str):
-    """``(Compiled, tree, operand texts)`` of a formula, as the general engine compiles it."""
+    """``(Compiled, tree, operand texts)`` of a plain formula, as the general engine
+    compiles it (groups never hold array formulas)."""
     tokens = tokenize(text)
     key = skeleton(tokens)
     parse_tokens = tuple((v if v != "\x00" else "A1", t or "OPERAND", s or "RANGE")
@@ -73,9 +73,7 @@ def _shape(text: str):
     compiled = compile_skeleton(key, parse_tokens)
     tree = None
     if not compiled.problem:
-        from openpyxl.formula.tokenizer import Token
-
-        tree = _Parser([Token(v, t, s) for v, t, s in parse_tokens]).parse()
+        tree = parse_tree(parse_tokens, False)
     texts = [t.value for t in tokens if t.type == "OPERAND" and t.subtype == "RANGE"]
     return compiled, tree, texts
 
@@ -317,7 +315,7 @@ class FastPlan(Plan):
 
         s, r, c = anchor
         cell = self.book.sheets[s].formulas[(r, c)]
-        compiled, texts = compile_formula(cell.text)
+        compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
         slots = position_only(compiled, [self._operand(t, s) for t in texts])
         self.cells[anchor] = (compiled, slots, self.blocks.get(anchor))
         self._note_names(anchor, compiled, slots)
@@ -658,6 +656,20 @@ class _SlotReader:
             out.put(k, env.read(slot.area_at(r)))
         return out.tidy()
 
+    def intersected(self, i: int) -> Vec:
+        """Operand ``i`` in a value position: each cell's implicit intersection
+        (:func:`..intersection.intersect`, as the general engine computes it)."""
+        from ..intersection import intersect
+
+        slot = self.group.slots[i]
+        env = self.env
+        s, col = self.group.sheet, self.group.col
+        out = Vec.blank(len(self.rows))
+        for k, r in enumerate(self.rows.tolist()):
+            ref = slot.operand.reference(env) if slot.kind == "uniform" else slot.area_at(r)
+            out.put(k, intersect(ref, env, (s, r, col)))
+        return out.tidy()
+
     def rows_of(self, i: int):
         slot = self.group.slots[i]
         if slot.kind == "cell":
@@ -671,30 +683,6 @@ class _SlotReader:
 
 # ----------------------------------------------------------------------------- entry
 
-@contextlib.contextmanager
-def gc_paused():
-    """Pause the cyclic garbage collector while large object graphs are built.
-
-    Building a workbook's tens of thousands of cells otherwise triggers
-    collections over everything built so far (which find nothing to free:
-    cells hold no reference cycles); about a third of the reading time.
-    Cycles are still collected: later, by the collections of the oldest
-    generation.
-    """
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        # What was built goes to the oldest generation without a scan (freeze and
-        # unfreeze move lists; they also reset the young generation's count, which
-        # would otherwise make the next allocation scan everything built here).
-        gc.freeze()
-        gc.unfreeze()
-        if was_enabled:
-            gc.enable()
-
-
 def recalculate_fast(path, limits: Limits = DEFAULT_LIMITS, progress=None) -> Recalculation:
     """:func:`tubefuncs.headless.recalculate` by the fast path (same result)."""
     with gc_paused():
@@ -702,8 +690,6 @@ def recalculate_fast(path, limits: Limits = DEFAULT_LIMITS, progress=None) -> Re
 
 
 def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
-    from ..engine import recalculate
-
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")
@@ -719,7 +705,7 @@ def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
             progress.phase("calculating")
         plan.evaluate(env, progress)
     except (_UseGeneral, WorkbookError):
-        return recalculate(path, limits=limits, progress=progress, engine="general")
+        return recalculate_general(path, limits=limits, progress=progress)
     t3 = time.perf_counter()
     values = {}
     if not plan.blocks:

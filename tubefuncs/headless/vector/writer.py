@@ -32,6 +32,7 @@ import zipfile
 from collections import defaultdict
 
 from .. import values as V
+from ..gcpause import gc_paused
 from ..writer import _remove, _temp_beside, ooxml_text
 
 CHUNK = 512 * 1024    # (regions of this size keep the per-cell lists small: faster than 4 MB)
@@ -250,8 +251,6 @@ class _SheetRewriter:
 def write_fast(recalc, out_path) -> str | None:
     """Write the recalculated copy by rewriting formula cells in place; ``None``
     when the openpyxl writer must do it (nothing is left behind then)."""
-    from .plan import gc_paused
-
     with gc_paused():
         return _write_fast(recalc, out_path)
 
