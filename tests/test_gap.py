@@ -472,8 +472,8 @@ def test_gridless_coupling_needs_a_cut_off_tunnel():
     # through the worksheet layer, with the limit in its message).
     import scipy.constants as sc
 
-    from tubefuncs.worksheet import evaluate
     from tubefuncs.errors import TubeInputError
+    from tubefuncs.worksheet import evaluate
 
     a = 7e-3
     f_cut = 2.404826 * sc.c / (2 * np.pi * a)

@@ -92,8 +92,8 @@ FUNCTIONS = [
               "motion lowers the current: the law is high by 0.2 % at 10 kV, 2.1 % at "
               "100 kV, 9.5 % at 500 kV and 17.6 % at 1 MV, i.e. the exact current is 0.2 %, "
               "2.0 %, 8.7 % and 14.9 % lower than the law (computed by quadrature of the "
-              "1-D relativistic planar diode equation). Real guns are not planar: use TUBE_PERVEANCE "
-              "with the gun's perveance for them.",
+              "1-D relativistic planar diode equation). Real guns are not planar: use "
+              "TUBE_PERVEANCE with the gun's perveance for them.",
     ),
     Function(
         name="TUBE_BRILLOUIN_FIELD", func=beam.brillouin_field,

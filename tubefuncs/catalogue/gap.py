@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import numpy as np
-
 from scipy import constants as sc
 
 from ..physics import bunching, gap, loading

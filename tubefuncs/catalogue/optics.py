@@ -97,7 +97,7 @@ FUNCTIONS = [
     Function(
         name="TUBE_CONFINED_FLOW_FIELD", func=optics.confined_flow_field,
         params=(CURRENT, VOLTAGE, BEAM_RADIUS, RATIO),
-        result_unit="T", result_units=("T", "mT", "G"),
+        result_unit="T", result_units=("T", "mT"),
         help="Axial focusing field of a confined-flow beam, ratio times the relativistic "
              "Brillouin field; TUBE_CATHODE_FLUX gives the cathode flux it needs.",
         references=(REF_GILMOUR, REF_REISER), category=CATEGORY,

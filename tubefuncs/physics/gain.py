@@ -326,10 +326,12 @@ def _limit_texts(setup):
         bad = ~np.broadcast_to(lim["overlap"][k - 1], beam.f.shape)
         if bad.any():
             j = int(np.flatnonzero(bad.ravel())[0])
+            spacing = t[k, POS] - t[k - 1, POS]
+            half = 0.5 * (t[k, GAP] + t[k - 1, GAP])
             out.append(("overlap", (
-                f"cavities rows {k} and {k + 1} overlap: spacing {t[k, POS] - t[k - 1, POS]:.4g} m "
-                f"must be >= half the sum of the gap lengths ({0.5 * (t[k, GAP] + t[k - 1, GAP]):.4g} "
-                f"m) plus a fringing margin of one tunnel_radius ({a[j]:.4g} m)")))
+                f"cavities rows {k} and {k + 1} overlap: spacing {spacing:.4g} m must be >= "
+                f"half the sum of the gap lengths ({half:.4g} m) plus a fringing margin of one "
+                f"tunnel_radius ({a[j]:.4g} m)")))
             break
     j = _first(np.broadcast_to(lim["cutoff"], beam.f.shape))
     if j is not None:
@@ -762,10 +764,11 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
     - Sign convention: phasors e^{j omega t}; V_k is the gap voltage that
       accelerates electrons, the current is e times the electron flux.  Then
       Y_kn carries +j (ballistically the bunch current lags the modulating
-      voltage by theta0 - 90 deg [4]: Y ~ j e^{-j theta0} = e^{-j(theta0 - 90 deg)}) and V_n = -Z_n sum_k Y_kn V_k (the
-      cavity voltage decelerates the bunch that drives it).  A consequence: an
-      intermediate cavity tuned above the signal (inductive) adds in phase
-      with the direct modulation from the cavities before it.
+      voltage by theta0 - 90 deg [4], since j e^{-j theta0} = e^{-j(theta0 - 90 deg)})
+      and V_n = -Z_n sum_k Y_kn V_k (the cavity voltage decelerates the bunch
+      that drives it).  A consequence: an intermediate cavity tuned above the
+      signal (inductive) adds in phase with the direct modulation from the
+      cavities before it.
     - Each gap launches a fast and a slow space-charge wave (wave numbers
       beta_e -/+ beta_q) and couples to each with the gridless-gap RMS
       coefficient M taken at that wave number (`wave_coupling`) [2].  The

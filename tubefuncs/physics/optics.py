@@ -226,7 +226,7 @@ def confined_flow_field(current, voltage, beam_radius, ratio=2.0):
 
 
 def cathode_flux(current, voltage, beam_radius, ratio=2.0):
-    """Magnetic flux through the cathode that holds a beam at radius b in m times the Brillouin field.
+    """Cathode flux that holds the beam at its radius in m times the Brillouin field.
 
     Parameters
     ----------
