@@ -32,6 +32,9 @@ VALUE_USES = [
     "=IF({R}>30,{R2},0)", "=({R}+{R2})/2", "=10*LOG10({R}/{R2})", "=ROUNDUP({R}*{R2},0)",
     "=MIN({R}-{R2},100)", "=ISNUMBER({R})", "=ISBLANK({R})", "=LEN({L})", '=UPPER({L})&"x"',
     "=INT({R}/7)", "=MOD({R},7)", "=EXP({R}/100)", "=OR({R}>70,{R2}<1)", "=SIGN({R}-45)",
+    "=VLOOKUP({R},Data!$A$3:$B$12,2,FALSE)", "=MATCH({R},{R},0)", "=CHOOSE(2,{R},{R2})",
+    "=SUM(CHOOSE(2,{R},{R2}))", "=SUM(IF({R}>30,{R2}))", "=ROUNDDOWN({R}/{R2},1)",
+    "=IF(ISNUMBER({R}),{R}*{R2},\"-\")", "=MAX(MIN({R},60),20)", "=ABS({R2}-5)^0.5",
 ]
 WHOLE_USES = [
     "=SUM({R})", "=AVERAGE({R})", "=MAX({R})", "=MIN({R})", "=COUNT({R})", "=COUNTA({L})",
@@ -42,6 +45,8 @@ WHOLE_USES = [
     "=STDEV({R})", "=MEDIAN({R})", "=SUMPRODUCT(LOG10({R}))",
     "=ROUND(SUMPRODUCT({R},{R2})/SUM({R2}),3)", "=SUMSQ({R2})", "=PRODUCT({R2})",
     "=MATCH(48,{R},0)", "=COUNTIF({L},\"a\")", "=MAX({R})-MIN({R})",
+    "=INDEX({R2},MATCH(48,{R},0))", "=VLOOKUP(50,Data!$A$3:$B$12,2,TRUE)",
+    "=SUMPRODUCT(({R}>30)*({R2}<8))", "=AVERAGE({R},{R2})", "=COUNTBLANK({R})",
 ]
 ARRAY_CELL_USES = [
     "=SUM({R}*2)", "=SUM(({R}>40)*{R2})", "=MAX(IF({R}>40,{R2}))", '=SUM(IF({L}="a",{R},0))',

@@ -124,3 +124,15 @@ def test_the_table():
     a = Area("S", 3, 2, 7, 4)
     assert intersect_area(a, 5, 3) == Area("S", 5, 3, 5, 3)
     assert intersect_area(a, 5, 9) is None and intersect_area(a, 2, 3) is None
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_filled_down_relative_range(tmp_path, engine):
+    # =A{r-1}:A{r+1}*2 filled down: each row intersects its own moving range at A{r}.
+    cells = {f"B{k}": f"=A{k - 1}:A{k + 1}*2" for k in range(4, 8)}
+    cells.update({f"C{k}": f"=A{k + 1}:A{k + 3}*2" for k in range(3, 6)})   # never its row
+    r = _calc(tmp_path, cells, engine)
+    assert [r.value("S", f"B{k}") for k in range(4, 8)] == [80.0, 100.0, 120.0, 140.0]
+    assert all(r.value("S", f"C{k}") is V.VALUE for k in range(3, 6))
+    if engine == "fast":
+        assert r.stats.get("vector groups", 0) >= 1

@@ -43,7 +43,8 @@ UNSUPPORTED = {
 }
 
 #: Functions whose arguments are references, answered by the engine itself.
-REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "SUBTOTAL", "SINGLE"})
+REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "SUBTOTAL", "SINGLE",
+                                 "COUNTBLANK"})
 
 
 def _is_text(v) -> bool:
@@ -303,6 +304,8 @@ def reference_function(name: str, args: list, host, env=None) -> object:
         return subtotal(args, env)
     if name == "SINGLE":
         return implicit_intersection(args, host, env)
+    if name == "COUNTBLANK":
+        return countblank(args, env)
     if len(args) > 1:
         return V.VALUE
     if not args:
@@ -324,6 +327,23 @@ def reference_function(name: str, args: list, host, env=None) -> object:
         return V.VALUE
     shape = V.as_array(arg).shape
     return float(shape[0] if name == "ROWS" else shape[1])
+
+
+def countblank(args: list, env):
+    """COUNTBLANK(range): blank cells, and cells holding an empty text.  A whole
+    column or row counts the cells beyond the used part of the sheet too (the
+    engine reads only the used part)."""
+    from .references import Area
+
+    if len(args) != 1:
+        return V.VALUE
+    arg = args[0]
+    if not isinstance(arg, Area):
+        return arg if V.is_error(arg) else V.VALUE
+    clipped = env.clip(arg)
+    values = V.as_array(env.read(clipped))
+    inside = sum(1 for v in values.flat if v is V.EMPTY or v == "")
+    return float(inside + arg.size - clipped.size)
 
 
 def implicit_intersection(args: list, host, env):
