@@ -226,6 +226,10 @@ class Compiler:
 
     # ------------------------------------------------------------ calls
     def call(self, written, arg_nodes):
+        from ..formula import _is_index_of_reference
+
+        if _is_index_of_reference(("call", written, arg_nodes)):
+            raise NotVectorisable("INDEX of a reference (a reference result)")
         res = resolve(written)
         if res.kind == "unknown":
             return lambda ctx: Vec.full(V.NAME, ctx.n)
