@@ -41,7 +41,7 @@ def python_paths() -> list[str]:
 
 
 def paths_record(extra: list[str] | None = None) -> dict:
-    return {"python": "%d.%d" % sys.version_info[:2], "executable": sys.executable,
+    return {"python": "{}.{}".format(*sys.version_info[:2]), "executable": sys.executable,
             "sys_path": list(extra or []) + python_paths()}
 
 

@@ -9,7 +9,6 @@ variable (entries separated like PATH).
 """
 
 import json
-import math
 import os
 import sys
 
@@ -44,17 +43,17 @@ def _adapter():
         if p not in sys.path:
             sys.path.insert(0, p)
     want = recorded.get("python", "")
-    have = "%d.%d" % sys.version_info[:2]
+    have = "{}.{}".format(*sys.version_info[:2])
     try:
         from tubefuncs.calc import adapter
     except Exception as exc:
         hint = ""
         if want and want != have:
-            hint = (" The recorded Python is %s but LibreOffice runs Python %s: install "
-                    "tubefuncs for a Python %s." % (want, have, have))
-        _STATE["problem"] = ("tubefuncs cannot be imported in LibreOffice's Python %s (%s: "
-                             "%s).%s Run `tubefuncs calc-setup` again or set "
-                             "TUBEFUNCS_PYTHONPATH." % (have, type(exc).__name__, exc, hint))
+            hint = (f" The recorded Python is {want} but LibreOffice runs Python {have}: "
+                    f"install tubefuncs for a Python {have}.")
+        _STATE["problem"] = (f"tubefuncs cannot be imported in LibreOffice's Python {have} "
+                             f"({type(exc).__name__}: {exc}).{hint} Run `tubefuncs "
+                             f"calc-setup` again or set TUBEFUNCS_PYTHONPATH.")
         raise RuntimeError(_STATE["problem"]) from None
     _STATE["adapter"] = adapter
     return adapter
