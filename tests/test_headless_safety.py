@@ -104,7 +104,7 @@ def test_snapshot_is_written_atomically(tmp_path, book, monkeypatch):
     target.write_text("old\n")
     recalc = recalculate(book)
     monkeypatch.setattr(os, "replace", lambda a, b: (_ for _ in ()).throw(OSError("full")))
-    with pytest.raises(OSError):
+    with pytest.raises(WorkbookError, match="cannot write"):   # (one line, exit 2)
         write_snapshot(recalc, target)
     assert target.read_text() == "old\n"
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".tubefuncs-")] == []
@@ -143,15 +143,27 @@ def test_macros_are_never_run_and_vba_is_copied_through(tmp_path, book, monkeypa
 
     monkeypatch.setattr(subprocess, "Popen", forbidden)
     monkeypatch.setattr(os, "system", forbidden)
-    opened = []
+    from tubefuncs.headless import limits as limits_module
+
+    opened, inspecting = [], []
     real_open = zipfile.ZipFile.open
+    real_scan = limits_module._scan_whole
 
     def spy(self, name, *a, **k):
-        opened.append(getattr(name, "filename", name))
+        if not inspecting:
+            opened.append(getattr(name, "filename", name))
         return real_open(self, name, *a, **k)
+
+    def scan(*a, **k):   # the inspection checks the part's bytes (CRC, no DTD) as opaque data
+        inspecting.append(1)
+        try:
+            return real_scan(*a, **k)
+        finally:
+            inspecting.pop()
 
     xlsm = _xlsm(tmp_path, book)
     monkeypatch.setattr(zipfile.ZipFile, "open", spy)
+    monkeypatch.setattr(limits_module, "_scan_whole", scan)
     recalc = recalculate(xlsm)
     assert "xl/vbaProject.bin" not in opened            # evaluation never reads the VBA
     assert recalc.value("S", "A2") == 6.0
@@ -313,3 +325,299 @@ def test_outputs_get_ordinary_file_permissions(tmp_path, book):
         os.umask(mask)
     assert os.stat(out).st_mode & 0o777 == 0o644
     assert os.stat(snap).st_mode & 0o777 == 0o644
+
+
+# ----------------------------------------------------------------------------- hostile inputs, II
+# Each family below was found by feeding small hand-made files to the three
+# commands under a time limit and a memory cap; the inputs here are our own.
+
+NS = 'xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"'
+
+
+def sheet_xml(rows: str, head: str = "") -> bytes:
+    return (f'<?xml version="1.0" encoding="UTF-8"?><worksheet {NS}>{head}<sheetData>{rows}'
+            f'</sheetData></worksheet>').encode()
+
+
+def refused_by_all(capsys, path, *words, limit_s=10, limit_mib=200):
+    """check, recalc and snapshot each give one line on stderr and exit 2, fast and small."""
+    folder = os.path.dirname(str(path))
+    for command in ("check", "recalc", "snapshot"):
+        args = [command, path]
+        if command == "recalc":
+            args += ["-o", os.path.join(folder, "out.xlsx")]
+        if command == "snapshot":
+            args += ["-o", os.path.join(folder, "out.tsv")]
+        code, out, err, elapsed, peak = run_cli(capsys, *args)
+        assert code == 2, (command, out, err)
+        assert len(err.strip().splitlines()) == 1 and "Traceback" not in err + out, err
+        for word in words:
+            assert word.lower() in err.lower(), err
+        assert elapsed < limit_s, (command, elapsed)
+        assert peak < limit_mib, f"{command}: peak {peak:.0f} MiB"
+        assert not os.path.exists(os.path.join(folder, "out.xlsx"))
+        assert not os.path.exists(os.path.join(folder, "out.tsv"))
+
+
+def test_array_block_over_the_whole_sheet_is_refused_before_listing_cells(tmp_path, book, capsys):
+    bad = tmp_path / "block.xlsx"
+    rewrite_part(book, "xl/worksheets/sheet1.xml", sheet_xml(
+        '<row r="1"><c r="A1"><f t="array" ref="A1:XFD1048576">1+1</f></c></row>'), out=bad)
+    refused_by_all(capsys, str(bad), "array formula", "A1:XFD1048576", "limit")
+
+
+def test_array_blocks_count_toward_the_cell_limit(tmp_path, book, capsys):
+    bad = tmp_path / "blocks.xlsx"
+    rows = "".join(f'<row r="{r}"><c r="A{r}"><f t="array" ref="A{r}:J{r}">1</f></c></row>'
+                   for r in range(1, 11))
+    rewrite_part(book, "xl/worksheets/sheet1.xml", sheet_xml(rows), out=bad)
+    code, *_ = run_cli(capsys, "check", bad, "--max-cells", "99")
+    assert code == 2
+
+
+def test_one_row_of_millions_of_cells_is_refused_within_its_first_bytes(tmp_path, book, capsys):
+    bad = tmp_path / "row.xlsx"
+    cells = "".join(f'<c r="{_col(i)}1"><v>1</v></c>' for i in range(1, 16385))
+    rows = '<row r="1">' + cells * 190 + "</row>"     # 3.1 million cells in one row
+    rewrite_part(book, "xl/worksheets/sheet1.xml", sheet_xml(rows), out=bad)
+    p, elapsed = run_capped("check", bad, cap_mib=1000)
+    assert p.returncode == 2 and "more than 2,000,000 cells" in p.stderr, p.stderr
+    assert elapsed < 10, elapsed
+
+
+def run_capped(*argv, cap_mib=1000, timeout=60):
+    """The command line in a fresh interpreter under an address-space cap (as a user
+    would run it under prlimit): (completed process, seconds)."""
+    import resource
+    import subprocess
+    import sys
+
+    def cap():
+        resource.setrlimit(resource.RLIMIT_AS, (cap_mib * MiB, cap_mib * MiB))
+
+    env = dict(os.environ, PYTHONPATH=os.path.dirname(os.path.dirname(os.path.abspath(
+        __file__))))
+    t = time.perf_counter()
+    p = subprocess.run([sys.executable, "-m", "tubefuncs", *map(str, argv)], capture_output=True,
+                       text=True, env=env, timeout=timeout, preexec_fn=cap)
+    return p, time.perf_counter() - t
+
+
+def _col(i: int) -> str:
+    from openpyxl.utils import get_column_letter
+
+    return get_column_letter(i)
+
+
+@pytest.mark.parametrize("address", ["XFE1", "A0", "B99999999999", "AAAA1"])
+def test_cells_outside_the_sheet_are_refused_at_read(tmp_path, book, capsys, address):
+    bad = tmp_path / "outside.xlsx"
+    rewrite_part(book, "xl/worksheets/sheet1.xml", sheet_xml(
+        f'<row r="1"><c r="A1"><v>2</v></c><c r="{address}"><f>A1+1</f></c></row>'), out=bad)
+    code, out, err, *_ = run_cli(capsys, "recalc", bad, "-o", tmp_path / "o.xlsx")
+    assert code == 2 and len(err.strip().splitlines()) == 1, err
+    assert "outside" in err or "corrupt" in err, err
+
+
+def test_negative_shared_string_index_is_refused(tmp_path, book, capsys):
+    bad = tmp_path / "sst.xlsx"
+    rewrite_part(book, "xl/worksheets/sheet1.xml", sheet_xml(
+        '<row r="1"><c r="A1" t="s"><v>-1</v></c><c r="B1"><f>A1</f></c></row>'), out=bad)
+    refused_by_all(capsys, str(bad), "shared-string index")
+
+
+def test_sheets_differing_only_in_case_are_refused(tmp_path, capsys):
+    good = make_book(tmp_path / "g.xlsx", {"Yarrow": {"A1": 1}, "Ysk": {"A1": "=Yarrow!A1"}})
+    bad = tmp_path / "case.xlsx"
+    wb = read_part(good, "xl/workbook.xml").replace(b'name="Ysk"', b'name="YARROW"')
+    rewrite_part(good, "xl/workbook.xml", wb, out=bad)
+    refused_by_all(capsys, str(bad), "case")
+
+
+def _raw_zip(path, members):
+    """A zip written member by member (duplicates and odd methods allowed)."""
+    import warnings
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        with zipfile.ZipFile(path, "w") as z:
+            for name, data, method in members:
+                info = zipfile.ZipInfo(name)
+                info.compress_type = method
+                z.writestr(info, data)
+    return path
+
+
+def _members(book):
+    with zipfile.ZipFile(book) as z:
+        return [(i.filename, z.read(i.filename), zipfile.ZIP_DEFLATED) for i in z.infolist()]
+
+
+def test_duplicate_zip_members_are_refused_without_python_warnings(tmp_path, book, capsys):
+    members = _members(book)
+    sheet = next(m for m in members if m[0] == "xl/worksheets/sheet1.xml")
+    bad = _raw_zip(tmp_path / "dup.xlsx", members + [sheet])
+    refused_by_all(capsys, str(bad), "twice")
+
+
+def test_unknown_compression_of_a_non_xml_part_is_refused_by_every_command(tmp_path, book, capsys):
+    members = _members(book) + [("xl/media/image1.png", b"\x89PNG" + b"x" * 100,
+                                 zipfile.ZIP_BZIP2)]
+    bad = _raw_zip(tmp_path / "bz.xlsx", members)
+    refused_by_all(capsys, str(bad), "compression method")
+
+
+def test_corrupt_deflate_stream_of_a_non_xml_part_is_refused_by_every_command(tmp_path, book,
+                                                                              capsys):
+    members = _members(book) + [("xl/media/image1.png", os.urandom(3000), zipfile.ZIP_DEFLATED)]
+    bad = _raw_zip(tmp_path / "bad.xlsx", members)
+    data = bytearray(bad.read_bytes())
+    at = data.find(b"xl/media/image1.png") + len("xl/media/image1.png")   # local header end
+    for i in range(at + 40, at + 400):
+        data[i] ^= 0x5A
+    bad.write_bytes(bytes(data))
+    refused_by_all(capsys, str(bad), "corrupt")
+
+
+def test_dtd_in_a_utf16_document_properties_part_is_refused(tmp_path, book, capsys):
+    props = ('<?xml version="1.0" encoding="UTF-16"?><!DOCTYPE p [<!ENTITY e "zzz">]>'
+             '<Properties xmlns="http://schemas.openxmlformats.org/officeDocument/2006/'
+             'extended-properties"><Application>&e;</Application></Properties>')
+    bad = tmp_path / "props.xlsx"
+    rewrite_part(book, "docProps/app.xml", props.encode("utf-16"), out=bad)
+    refused_by_all(capsys, str(bad), "DTD")
+
+
+def test_fifo_and_device_inputs_are_refused_before_open(tmp_path, book, capsys):
+    fifo = tmp_path / "pipe.xlsx"
+    os.mkfifo(fifo)
+    refused_by_all(capsys, str(fifo), "not a regular file", "FIFO")
+    for expected in ("/dev/zero", str(_link(tmp_path, "/dev/zero"))):
+        code, _, err, elapsed, peak = run_cli(capsys, "check", book, "--expected", expected)
+        assert code == 2 and "not a regular file" in err and elapsed < 5 and peak < 50, err
+
+
+def _link(tmp_path, target):
+    link = tmp_path / "book.xlsx.expected.tsv"
+    link.symlink_to(target)
+    return link
+
+
+def test_expected_values_file_beside_the_book_linking_to_a_device(tmp_path, book, capsys):
+    _link(tmp_path, "/dev/zero")
+    code, _, err, elapsed, peak = run_cli(capsys, "check", book)
+    assert code == 2 and "not a regular file" in err and peak < 50, err
+
+
+def test_expected_values_file_over_its_size_limit(tmp_path, book, capsys, monkeypatch):
+    from tubefuncs.headless import limits as limits_module
+    from tubefuncs.headless import snapshot
+
+    big = tmp_path / "big.tsv"
+    big.write_text("# x\n" * 1000)
+    monkeypatch.setattr(limits_module.DEFAULT_LIMITS.__class__, "max_expected_bytes", 100)
+    with pytest.raises(WorkbookError, match="over the limit"):
+        snapshot.read_snapshot(big, recalculate(book).book, max_bytes=100)
+
+
+@pytest.mark.parametrize("target", ["same", "link", "dir", "missing", "fifo", "device"])
+def test_output_paths_that_cannot_take_the_output(tmp_path, book, capsys, target):
+    before = sha256(book)
+    if target == "same":
+        out = book
+    elif target == "link":
+        out = tmp_path / "alias.xlsx"
+        out.symlink_to(book)
+    elif target == "dir":
+        out = tmp_path
+    elif target == "missing":
+        out = tmp_path / "no" / "such" / "x.tsv"
+    elif target == "fifo":
+        out = tmp_path / "fifo.tsv"
+        os.mkfifo(out)
+    else:
+        out = "/dev/null"
+    for command in ("snapshot", "recalc"):
+        code, _, err, elapsed, _ = run_cli(capsys, command, book, "-o", out)
+        assert code == 2 and len(err.strip().splitlines()) == 1, (command, err)
+        assert elapsed < 5
+    assert sha256(book) == before
+    if target == "fifo":
+        import stat
+
+        assert stat.S_ISFIFO(os.stat(out).st_mode)        # not replaced by a regular file
+
+
+def test_read_only_folder_and_full_disk_are_one_line_refusals(tmp_path, book, capsys, monkeypatch):
+    from tubefuncs.headless import writer
+
+    def full(*_a, **_k):
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(writer.tempfile, "mkstemp", full)
+    for command in ("snapshot", "recalc"):
+        code, _, err, *_ = run_cli(capsys, command, book, "-o", tmp_path / "o.out")
+        assert code == 2 and "No space left on device" in err, err
+        assert len(err.strip().splitlines()) == 1
+
+
+def test_stale_temporary_file_of_a_killed_process_is_cleaned_up(tmp_path, book):
+    import subprocess
+    import sys
+
+    from tubefuncs.headless import write_snapshot
+
+    dead = subprocess.Popen([sys.executable, "-c", "pass"])
+    dead.wait()
+    stale = tmp_path / f".tubefuncs-{dead.pid}-abc123.tmp"
+    stale.write_bytes(b"half")
+    mine = tmp_path / f".tubefuncs-{os.getpid()}-zzz999.tmp"   # a live process's: kept
+    mine.write_bytes(b"busy")
+    other = tmp_path / ".tubefuncs-notes.txt"                  # not our pattern: kept
+    other.write_bytes(b"keep")
+    write_snapshot(recalculate(book), tmp_path / "snap.tsv")
+    assert not stale.exists() and mine.exists() and other.exists()
+
+
+def test_control_characters_are_written_as_the_format_allows(tmp_path, capsys):
+    src = make_book(tmp_path / "ctl.xlsx", {"S": {"A1": '=CHAR(1)&"x_x0041_"&CHAR(31)'}})
+    for engine in ("fast", "general"):
+        out = tmp_path / f"o-{engine}.xlsx"
+        code, _, err, *_ = run_cli(capsys, "recalc", src, "-o", out, "--engine", engine)
+        assert code == 0, err
+        xml = read_part(out, "xl/worksheets/sheet1.xml")
+        # ECMA-376 Part 1, 22.9.2.19: control characters as _xHHHH_, a literal
+        # "_x0041_" escaped as "_x005F_x0041_".
+        assert b"_x0001_x_x005F_x0041__x001F_" in xml, xml
+
+
+def test_sheet_names_with_tab_or_line_feed_survive_snapshot_and_check(tmp_path, capsys):
+    good = make_book(tmp_path / "g.xlsx", {"Qa": {"A1": 3}, "Qb": {"A1": "=Qa!A1*2"}})
+    bad = tmp_path / "tabs.xlsx"
+    wb = read_part(good, "xl/workbook.xml").replace(b'name="Qb"', b'name="Q&#9;b&#10;c\\d"')
+    rewrite_part(good, "xl/workbook.xml", wb, out=bad)
+    code, _, err, *_ = run_cli(capsys, "snapshot", bad)
+    assert code == 0, err
+    code, out, err, *_ = run_cli(capsys, "check", bad)
+    assert code == 0 and "OK: 1 formula cells" in out, (out, err)
+
+
+def test_no_traceback_reaches_stderr_on_refused_inputs(tmp_path, book):
+    """Run as a user does, in a fresh interpreter (warnings and "Exception ignored"
+    messages from finalisers would show here)."""
+    import subprocess
+    import sys
+
+    members = _members(book)
+    bad = _raw_zip(tmp_path / "dup.xlsx", members + [members[-1]])
+    trunc = tmp_path / "trunc.xlsx"
+    trunc.write_bytes(book.read_bytes()[:-30])
+    env = dict(os.environ, PYTHONPATH=os.path.dirname(os.path.dirname(__file__)))
+    for path in (bad, trunc):
+        for command in (["check"], ["snapshot"], ["recalc", "-o", str(tmp_path / "o.xlsx")]):
+            p = subprocess.run([sys.executable, "-W", "default", "-m", "tubefuncs", command[0],
+                                str(path), *command[1:]], capture_output=True, text=True,
+                               env=env, timeout=60)
+            assert p.returncode == 2, p.stderr
+            assert len(p.stderr.strip().splitlines()) == 1, p.stderr
+            assert "Traceback" not in p.stderr and "Exception ignored" not in p.stderr

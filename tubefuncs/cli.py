@@ -122,23 +122,27 @@ def _say_name_errors(recalc, out) -> None:
 
 def cmd_recalc(args) -> int:
     from .headless import recalculate, write_recalculated
+    from .headless.writer import check_output
+
+    check_output(args.output, [args.book])   # (refused before any work)
 
     with _progress(os.path.basename(args.book)) as progress:
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
                              engine=args.engine)
         progress.phase("writing")
         out = write_recalculated(recalc, args.output)
-    errors = sum(1 for v in recalc.values.values() if _is_error(v))
+    errors = _count_errors(recalc)
     print(f"recalculated {recalc.formula_cells} formula cells of {args.book} "
           f"({errors} error value(s)); wrote {out}")
     _say_name_errors(recalc, sys.stdout)
     return EXIT_OK
 
 
-def _is_error(value) -> bool:
+def _count_errors(recalc) -> int:
+    """Error values among the computed values (one C-level pass, no call per cell)."""
     from .headless import values as V
 
-    return V.is_error(value)
+    return sum(map(V.is_error, recalc.values.values()))
 
 
 def cmd_check(args) -> int:
@@ -160,7 +164,10 @@ def cmd_check(args) -> int:
 
 
 def cmd_snapshot(args) -> int:
-    from .headless import recalculate, write_snapshot
+    from .headless import recalculate, snapshot_path, write_snapshot
+    from .headless.writer import check_output
+
+    check_output(args.output or snapshot_path(args.book), [args.book])   # (before any work)
 
     with _progress(os.path.basename(args.book)) as progress:
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
@@ -211,6 +218,10 @@ def main(argv=None) -> int:
         return COMMANDS[args.command](args)
     except WorkbookError as exc:
         print(f"tubefuncs {args.command}: {exc.message}", file=sys.stderr)
+        return EXIT_UNUSABLE
+    except MemoryError:
+        print(f"tubefuncs {args.command}: out of memory; the workbook needs more memory than "
+              f"this machine gives (lower the limits, e.g. --max-cells)", file=sys.stderr)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:
         print("tubefuncs: interrupted", file=sys.stderr)

@@ -107,8 +107,8 @@ class WorkbookFile(pytest.File):
         """``(Recalculation, Comparison, source)``, computed on first use."""
         if not hasattr(self, "_outcome"):
             from tubefuncs.headless import DEFAULT_ATOL, DEFAULT_RTOL, check, snapshot_path
-            from tubefuncs.headless.engine import ENGINES
             from tubefuncs.headless.problems import WorkbookError
+            from tubefuncs.headless.run import ENGINES
 
             ini = self.config.getini
             rtol = float(ini("tubefuncs_rtol") or DEFAULT_RTOL)

@@ -20,10 +20,9 @@ import math
 import re
 
 import numpy as np
-import pint
 
 
-def _registry() -> pint.UnitRegistry:
+def _registry():
     """The package's unit registry, from pint's on-disk definition cache when it can.
 
     Building the registry from pint's definition files costs about 0.3 s, a
@@ -31,15 +30,58 @@ def _registry() -> pint.UnitRegistry:
     user's cache folder) brings it to about 15 ms.  Where that folder cannot
     be used, the registry is built without it.
     """
+    pint = _import_pint()
+
     try:
-        return pint.UnitRegistry(cache_folder=":auto:")
+        registry = pint.UnitRegistry(cache_folder=":auto:")
     except Exception:  # unwritable cache folder, missing platformdirs, ...
-        return pint.UnitRegistry()
+        registry = pint.UnitRegistry()
+    # Perveance: the trade's unit is the perv (A/V^1.5); "uperv" is micro-perv.
+    registry.define("perv = ampere / volt ** 1.5")
+    return registry
 
 
-ureg = _registry()
-# Perveance: the trade's unit is the perv (A/V^1.5); "uperv" is micro-perv.
-ureg.define("perv = ampere / volt ** 1.5")
+def _import_pint():
+    """Import pint without its optional dask support.
+
+    pint looks for dask at import and, when it is installed, imports it: 60 ms
+    of a 0.13 s import, for arrays this package never gives pint.  The dask
+    package stays importable for everyone else afterwards.
+    """
+    import sys
+
+    hide = "pint" not in sys.modules and "dask" not in sys.modules
+    if hide:
+        sys.modules["dask"] = None   # the import system's "not installed"
+    try:
+        import pint
+    finally:
+        if hide and "dask" in sys.modules and sys.modules["dask"] is None:
+            del sys.modules["dask"]
+    return pint
+
+
+class _Registry:
+    """:data:`ureg`: the one :class:`pint.UnitRegistry`, built on first use.
+
+    Importing pint and loading its definitions costs about 0.1 s, and most
+    recalculations read no unit text at all (numbers in SI need no pint).
+    """
+
+    __slots__ = ()
+    _built = None
+
+    def __getattr__(self, attr):
+        built = _Registry._built
+        if built is None:
+            built = _Registry._built = _registry()
+        return getattr(built, attr)
+
+    def __repr__(self) -> str:
+        return "<tubefuncs unit registry (pint)>"
+
+
+ureg = _Registry()
 
 #: Longest unit text accepted (a cell of unit text is short).
 MAX_TEXT = 64

@@ -17,14 +17,14 @@ for every cell.
 from __future__ import annotations
 
 from .compare import DEFAULT_ATOL, DEFAULT_RTOL, Comparison, compare, format_table
-from .engine import Plan, Recalculation, recalculate
+from .engine import Plan, Recalculation
 from .limits import DEFAULT_LIMITS, Limits, inspect_file
 from .problems import WorkbookError
+from .run import ENGINES, recalculate, write_recalculated
 from .snapshot import read_snapshot, snapshot_path, write_snapshot
-from .writer import write_recalculated
 
 __all__ = [
-    "Comparison", "DEFAULT_ATOL", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
+    "Comparison", "DEFAULT_ATOL", "ENGINES", "DEFAULT_LIMITS", "DEFAULT_RTOL", "Limits", "Plan",
     "Recalculation", "WorkbookError", "check", "compare", "format_table", "inspect_file",
     "read_snapshot", "recalculate", "snapshot_path", "write_recalculated", "write_snapshot",
 ]
@@ -43,6 +43,12 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
+    from .limits import regular_file
+
+    if expected is not None:   # (a FIFO or device is refused before any work)
+        if not os.path.lexists(expected):
+            raise WorkbookError(f"{os.fspath(expected)}: no such expected-values file")
+        regular_file(os.fspath(expected), "expected-values file")
     recalc = recalculate(path, limits=limits, progress=progress, engine=engine)
     if expected is None and not recalc.book.has_cached_values and recalc.values:
         if fallback is not None and os.path.exists(fallback):
@@ -53,7 +59,7 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
                 f"last saved by a spreadsheet application) and no expected-values file; use "
                 f"--expected FILE, e.g. from 'tubefuncs snapshot'")
     if expected is not None:
-        wanted = read_snapshot(expected, recalc.book)
+        wanted = read_snapshot(expected, recalc.book, limits.max_expected_bytes)
         source = os.fspath(expected)
     else:
         wanted = recalc.cached_values()

@@ -12,8 +12,7 @@ import os
 import tempfile
 
 from . import values as V
-from .engine import recalculate
-from .writer import write_recalculated
+from .run import recalculate, write_recalculated
 
 CAUTIONS = (
     "High voltage: beam supplies and modulators store lethal energy; interlock and earth "

@@ -19,6 +19,7 @@ from openpyxl.utils.cell import coordinate_to_tuple
 from . import values as V
 from .evaluate import AreaOperand, Env, ErrorOperand, NameOperand, SequentialEvaluator, spill
 from .formula import compile_formula
+from .gcpause import gc_paused
 from .graph import Graph
 from .limits import DEFAULT_LIMITS, Limits
 from .loader import Book, load_book
@@ -250,24 +251,17 @@ class Plan:
 
 
 
-ENGINES = ("fast", "general")
+def recalculate_general(path, limits: Limits = DEFAULT_LIMITS, progress=None,
+                        evaluator=None) -> Recalculation:
+    """The general engine: every formula cell compiled and evaluated on its own.
 
-
-def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
-                evaluator=None, engine: str = "fast") -> Recalculation:
-    """Load, compile and evaluate every formula of a workbook (the file is only read).
-
-    ``engine``: ``"fast"`` (default) evaluates same-shape formula cells together
-    as numpy vectors (:mod:`tubefuncs.headless.vector`) and hands everything
-    else to the general engine; ``"general"`` evaluates every cell on its own.
-    Both give the same values.  An explicit ``evaluator`` runs the general plan.
+    :func:`tubefuncs.headless.recalculate` chooses between this and the fast path.
     """
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)} (got {engine!r})")
-    if engine == "fast" and evaluator is None:  # --- fast path hook (issue 6)
-        from .vector import recalculate_fast
+    with gc_paused():
+        return _recalculate_general(path, limits, progress, evaluator)
 
-        return recalculate_fast(path, limits=limits, progress=progress)
+
+def _recalculate_general(path, limits: Limits, progress, evaluator) -> Recalculation:
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")

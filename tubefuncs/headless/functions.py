@@ -225,6 +225,9 @@ def subtotal(args: list, env) -> object:
     return V.scalar(excel_library()[name](*values))
 
 def _formulas_library() -> dict:
+    from .deferred import import_formulas_statistics
+
+    import_formulas_statistics()   # before formulas imports it with all of scipy.stats
     out = {}
     for name, entry in formulas.get_functions().items():
         if isinstance(entry, dict):

@@ -18,19 +18,20 @@ Every failure of the file becomes a one-line
 from __future__ import annotations
 
 import os
+import re
 import zipfile
 import zlib
 from dataclasses import dataclass, field
 from xml.etree.ElementTree import ParseError
 
 from openpyxl.reader.excel import ExcelReader
-from openpyxl.worksheet._reader import VALUE_TAG, WorkSheetParser
+from openpyxl.worksheet._reader import FORMULA_TAG, VALUE_TAG, WorkSheetParser
 from openpyxl.worksheet.formula import ArrayFormula, DataTableFormula
 
 from . import values as V
 from .limits import DEFAULT_LIMITS, Limits, inspect_file
 from .problems import WorkbookError
-from .references import parse_area
+from .references import MAX_COL, MAX_ROW, parse_area
 
 try:  # defusedxml's refusals, when it guards openpyxl's parsing
     from defusedxml import DefusedXmlException
@@ -86,6 +87,10 @@ class _CellParser(WorkSheetParser):
     """openpyxl's streaming worksheet parser, keeping the cached value of formula cells."""
 
     def parse_cell(self, element):
+        if element.get("t") == "s" and element.find(FORMULA_TAG) is None:
+            index = element.findtext(VALUE_TAG, None)
+            if index:
+                shared_string(self.shared_strings, index)
         cell = super().parse_cell(element)
         if cell["data_type"] == "f":
             cell["cached"] = _cached_value(element, self.shared_strings)
@@ -111,11 +116,64 @@ def cached_value_from_text(kind: str, text, shared_strings):
     if kind == "b":
         return text.strip() in ("1", "true")
     if kind == "s":
-        try:
-            return str(shared_strings[int(text)])
-        except (ValueError, IndexError):
-            return V.VALUE
+        return str(shared_string(shared_strings, text))
     return text
+
+
+def shared_string(shared_strings, text):
+    """The shared string a cell's index names; a negative or missing index is a
+    corrupt file (Python's negative indexing would silently give another string)."""
+    try:
+        index = int(text)
+    except (TypeError, ValueError):
+        index = -1
+    if not 0 <= index < len(shared_strings):
+        raise WorkbookError(f"shared-string index {str(text)[:20]!r} is not one of the "
+                            f"file's {len(shared_strings):,} strings (corrupt workbook)")
+    return shared_strings[index]
+
+
+def _too_many_cells(name: str, limits: Limits) -> WorkbookError:
+    return WorkbookError(f"{name}: more than {limits.max_cells:,} cells; over the limit "
+                         f"(raise it with --max-cells if the workbook is genuine)")
+
+
+def outside_sheet(name: str, sheet: str, what: str) -> WorkbookError:
+    return WorkbookError(f"{name}: sheet {sheet!r} has a cell at {what[:40]}, outside the "
+                         f"sheet (columns A to XFD, rows 1 to {MAX_ROW:,}); corrupt workbook")
+
+
+_RE_CELL_START = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?c[\s>/]")
+
+
+class CountingSource:
+    """A worksheet part's byte stream that counts cell elements as they arrive, so
+    that the cell limit holds before any parser builds a row (one row of millions
+    of cells is refused within its first bytes over the limit)."""
+
+    def __init__(self, src, name: str, cells_left: int, limits: Limits):
+        self._src = src
+        self._name = name
+        self._left = cells_left
+        self._limits = limits
+        self._tail = b""
+
+    def read(self, n=-1):
+        data = self._src.read(n if n is not None and n >= 0 else 1 << 20)
+        if data:
+            probe = self._tail + data
+            self._left -= len(_RE_CELL_START.findall(probe))
+            # (a cell start cut by the chunk end is counted with the next chunk)
+            cut = probe.rfind(b"<")
+            self._tail = probe[cut:] if cut >= 0 and len(probe) - cut < 64 else b""
+            if self._tail:
+                self._left += len(_RE_CELL_START.findall(self._tail))
+            if self._left < 0:
+                raise _too_many_cells(self._name, self._limits)
+        return data
+
+    def close(self):
+        self._src.close()
 
 
 def load_book(path, limits: Limits = DEFAULT_LIMITS, sheet_reader=None) -> Book:
@@ -161,10 +219,23 @@ def _read(name: str, limits: Limits, sheet_reader) -> Book:
                 raise WorkbookError(
                     f"{name}: sheet {entry.name!r} is listed in the workbook but its part "
                     f"{rel.target} is missing (corrupt workbook)")
+            upper = entry.name.upper()
+            if any(s.name.upper() == upper for s in sheets):
+                raise WorkbookError(
+                    f"{name}: two sheets named {entry.name!r} when case is ignored (a "
+                    f"spreadsheet application forbids it; references could not tell them "
+                    f"apart); corrupt workbook")
             sheet = Sheet(entry.name, len(sheets))
-            with reader.archive.open(rel.target) as src:
-                cells_left = sheet_reader(name, sheet, src, reader.shared_strings, cells_left,
-                                          limits)
+            with reader.archive.open(rel.target) as raw:
+                src = CountingSource(raw, name, cells_left, limits)
+                try:
+                    cells_left = sheet_reader(name, sheet, src, reader.shared_strings,
+                                              cells_left, limits)
+                except WorkbookError as exc:
+                    if exc.message.startswith("shared-string index"):
+                        raise WorkbookError(f"{name}: sheet {entry.name!r}: "
+                                            f"{exc.message}") from None
+                    raise
             sheets.append(sheet)
         if not sheets:
             raise WorkbookError(f"{name}: the workbook has no worksheets")
@@ -176,6 +247,27 @@ def _read(name: str, limits: Limits, sheet_reader) -> Book:
         reader.archive.close()
 
 
+def array_block(name: str, sheet: Sheet, r: int, c: int, ref, limits: Limits, cells_left: int):
+    """The block of an array formula (its cells count toward the cell limit, checked
+    here, before anything lists them); ``(Area or None, cells_left)``."""
+    area = parse_area((ref or "").replace("$", ""), sheet.name)
+    if area is None:
+        if ref and ref.strip():
+            raise WorkbookError(f"{name}: array formula in {sheet.name}!R{r}C{c} has the block "
+                                f"{str(ref)[:40]!r}, not a range of the sheet; corrupt workbook")
+        return None, cells_left
+    if area.whole_rows or area.whole_cols:
+        raise WorkbookError(f"{name}: array formula in {sheet.name}!R{r}C{c} claims whole "
+                            f"rows or columns ({ref}); refused")
+    cells_left -= area.size - 1
+    if cells_left < 0:
+        raise WorkbookError(
+            f"{name}: the array formula in {sheet.name}!R{r}C{c} covers {ref} ({area.size:,} "
+            f"cells), over the limit of {limits.max_cells:,} cells of a workbook (raise it "
+            f"with --max-cells if the workbook is genuine)")
+    return area, cells_left
+
+
 def _read_sheet(name, sheet: Sheet, src, shared_strings, cells_left: int, limits: Limits) -> int:
     parser = _CellParser(src, shared_strings, data_only=False, date_formats=set(),
                          timedelta_formats=set())
@@ -184,15 +276,16 @@ def _read_sheet(name, sheet: Sheet, src, shared_strings, cells_left: int, limits
     for _, row in parser.parse():
         cells_left -= len(row)
         if cells_left < 0:
-            raise WorkbookError(f"{name}: more than {limits.max_cells:,} cells; over the limit "
-                                f"(raise it with --max-cells if the workbook is genuine)")
+            raise _too_many_cells(name, limits)
         for cell in row:
             r, c = cell["row"], cell["column"]
+            if not (1 <= r <= MAX_ROW and 1 <= c <= MAX_COL):
+                raise outside_sheet(name, sheet.name, f"row {r}, column {c}")
             value = cell["value"]
             if cell["data_type"] == "f":
                 if isinstance(value, ArrayFormula):
                     text, ref = value.text or "=", value.ref
-                    area = parse_area(ref or "", sheet.name)
+                    area, cells_left = array_block(name, sheet, r, c, ref, limits, cells_left)
                     if area is not None:
                         max_row, max_col = max(max_row, area.r2), max(max_col, area.c2)
                     formulas[(r, c)] = FormulaCell(text if text.startswith("=") else "=" + text,

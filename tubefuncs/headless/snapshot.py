@@ -13,7 +13,11 @@ Cells come in workbook order: sheet by sheet, row by row, column by column.
 A number is written with Python's shortest round-trip form, a text in JSON
 quotes, a boolean as TRUE/FALSE, an error as its code; an optional third
 column holds the message of an error (for people: never compared).  Lines
-starting with ``#`` are comments.
+starting with ``#`` are comments.  A sheet name holding a tab, a line end or
+a backslash (which a spreadsheet application's own names never hold) is
+written with backslash escapes (``\\t``, ``\\n``, ``\\r``, ``\\\\``), so every
+cell stays on its one line.  The file is read only from a regular file of at
+most ``Limits.max_expected_bytes``.
 """
 
 from __future__ import annotations
@@ -21,6 +25,7 @@ from __future__ import annotations
 import json
 import math
 import os
+import re
 
 from openpyxl.utils.cell import coordinate_to_tuple
 
@@ -64,13 +69,31 @@ def parse_value(text: str):
     return float(text)
 
 
+_CELL_ESCAPES = {"\\": "\\\\", "\t": "\\t", "\n": "\\n", "\r": "\\r"}
+_CELL_UNESCAPES = {v[1]: k for k, v in _CELL_ESCAPES.items()}
+_RE_CELL_ESCAPE = re.compile(r"\\(.)")
+
+
+def escape_cell(text: str) -> str:
+    """A cell name for the file's first column (tab, line ends and backslash escaped)."""
+    if not any(ch in text for ch in _CELL_ESCAPES):
+        return text
+    return "".join(_CELL_ESCAPES.get(ch, ch) for ch in text)
+
+
+def unescape_cell(text: str) -> str:
+    if "\\" not in text:
+        return text
+    return _RE_CELL_ESCAPE.sub(lambda m: _CELL_UNESCAPES.get(m.group(1), m.group(0)), text)
+
+
 def render(recalc) -> str:
     lines = [HEADER, f"# workbook: {os.path.basename(recalc.book.path)}",
              "# cell<TAB>value[<TAB>message of an error value]; regenerate with "
              "'tubefuncs snapshot'"]
     for key in sorted(recalc.values):
         value = recalc.values[key]
-        line = f"{recalc.cell_name(key)}\t{format_value(value)}"
+        line = f"{escape_cell(recalc.cell_name(key))}\t{format_value(value)}"
         message = recalc.messages.get(key)
         if V.is_error(value) and message:
             line += "\t" + " ".join(message.split())
@@ -82,18 +105,32 @@ def write_snapshot(recalc, path=None) -> str:
     from .writer import atomic_write_bytes
 
     path = os.fspath(path) if path is not None else snapshot_path(recalc.book.path)
-    atomic_write_bytes(path, render(recalc).encode("utf-8"))
+    atomic_write_bytes(path, render(recalc).encode("utf-8"), inputs=[recalc.book.path])
     return path
 
 
-def read_snapshot(path, book) -> dict:
-    """``{(sheet_index, row, col): value}`` from an expected-values file."""
+def read_snapshot(path, book, max_bytes: int | None = None) -> dict:
+    """``{(sheet_index, row, col): value}`` from an expected-values file (a regular
+    file of at most ``max_bytes``, checked before it is opened and while reading)."""
+    from .limits import DEFAULT_LIMITS, MiB, regular_file
+
     path = os.fspath(path)
+    max_bytes = DEFAULT_LIMITS.max_expected_bytes if max_bytes is None else max_bytes
+    if not os.path.lexists(path):
+        raise WorkbookError(f"{path}: no such expected-values file")
+    size = regular_file(path, "expected-values file").st_size
+    too_big = WorkbookError(f"{path}: expected-values file over the limit of "
+                            f"{max_bytes / MiB:.0f} MiB; refused")
+    if size > max_bytes:
+        raise too_big
     try:
-        with open(path, encoding="utf-8") as fh:
-            lines = fh.read().splitlines()
-    except FileNotFoundError:
-        raise WorkbookError(f"{path}: no such expected-values file") from None
+        with open(path, "rb") as fh:
+            data = fh.read(max_bytes + 1)
+        if len(data) > max_bytes:
+            raise too_big
+        lines = data.decode("utf-8").splitlines()
+    except WorkbookError:
+        raise
     except (OSError, UnicodeDecodeError) as exc:
         raise WorkbookError(f"{path}: cannot read expected values ({exc})") from None
     out = {}
@@ -102,7 +139,7 @@ def read_snapshot(path, book) -> dict:
             continue
         parts = line.split("\t")
         try:
-            sheet_name, coordinate = split_sheet(parts[0])
+            sheet_name, coordinate = split_sheet(unescape_cell(parts[0]))
             sheet = book.sheet(sheet_name or "")
             if sheet is None:
                 raise ValueError(f"no sheet {sheet_name!r} in the workbook")

@@ -28,9 +28,7 @@ its message are the general engine's.
 from __future__ import annotations
 
 import bisect
-import contextlib
 import functools
-import gc
 import itertools
 import operator
 import re
@@ -40,9 +38,10 @@ from collections import defaultdict, deque
 import numpy as np
 
 from .. import values as V
-from ..engine import Plan, Recalculation
+from ..engine import Plan, Recalculation, recalculate_general
 from ..evaluate import AreaOperand, Env, ErrorOperand
 from ..formula import _Parser, compile_skeleton, skeleton, tokenize
+from ..gcpause import gc_paused
 from ..graph import Graph
 from ..limits import DEFAULT_LIMITS, Limits
 from ..problems import WorkbookError
@@ -653,30 +652,6 @@ class _SlotReader:
 
 # ----------------------------------------------------------------------------- entry
 
-@contextlib.contextmanager
-def gc_paused():
-    """Pause the cyclic garbage collector while large object graphs are built.
-
-    Building a workbook's tens of thousands of cells otherwise triggers
-    collections over everything built so far (which find nothing to free:
-    cells hold no reference cycles); about a third of the reading time.
-    Cycles are still collected: later, by the collections of the oldest
-    generation.
-    """
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        # What was built goes to the oldest generation without a scan (freeze and
-        # unfreeze move lists; they also reset the young generation's count, which
-        # would otherwise make the next allocation scan everything built here).
-        gc.freeze()
-        gc.unfreeze()
-        if was_enabled:
-            gc.enable()
-
-
 def recalculate_fast(path, limits: Limits = DEFAULT_LIMITS, progress=None) -> Recalculation:
     """:func:`tubefuncs.headless.recalculate` by the fast path (same result)."""
     with gc_paused():
@@ -684,8 +659,6 @@ def recalculate_fast(path, limits: Limits = DEFAULT_LIMITS, progress=None) -> Re
 
 
 def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
-    from ..engine import recalculate
-
     t0 = time.perf_counter()
     if progress is not None:
         progress.phase("reading")
@@ -701,7 +674,7 @@ def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
             progress.phase("calculating")
         plan.evaluate(env, progress)
     except (_UseGeneral, WorkbookError):
-        return recalculate(path, limits=limits, progress=progress, engine="general")
+        return recalculate_general(path, limits=limits, progress=progress)
     t3 = time.perf_counter()
     values = {}
     if not plan.blocks:

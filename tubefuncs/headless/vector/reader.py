@@ -47,11 +47,13 @@ from ..loader import (
     DEFAULT_LIMITS,
     FormulaCell,
     Sheet,
+    array_block,
     cached_value_from_text,
     load_book,
+    shared_string,
 )
 from ..problems import WorkbookError
-from ..references import parse_area
+from ..references import MAX_COL, MAX_ROW
 
 CHUNK = 512 * 1024    # (regions of this size keep the per-cell lists small: faster than 4 MB)
 MAIN_NS = b"http://schemas.openxmlformats.org/spreadsheetml/2006/main"
@@ -387,6 +389,8 @@ class _Scanner:
         cols = list(map(_COLUMNS.get, letters))
         if None in cols:
             cols = [c or _column(lt) for c, lt in zip(cols, letters)]
+        if not (1 <= min(rows) and max(rows) <= MAX_ROW and max(cols) <= MAX_COL):
+            raise Unsupported("cell outside the sheet")   # (openpyxl's pass says where)
         keys = list(zip(rows, cols))
         kinds = list(map(_KINDS.get, raw_kinds))
         if None in kinds:
@@ -458,7 +462,11 @@ class _Scanner:
                 continue
             cell = self._formula(letters[i], digits[i], f_attrs[i], f_texts[i])
             if cell.array_ref is not None:
-                area = parse_area(cell.array_ref, self.sheet.name)
+                r, c = keys[i]
+                left = self.cells_left - self.cells
+                area, after = array_block(self.name, self.sheet, r, c, cell.array_ref,
+                                          self.limits, left)
+                self.cells += left - after
                 if area is not None:
                     self.max_row = max(self.max_row, area.r2)
                     self.max_col = max(self.max_col, area.c2)
@@ -520,7 +528,7 @@ class _Scanner:
         if kind == "n":
             return V.from_file(_cast_number(value), "n")
         if kind == "s":
-            return V.from_file(strings[int(value)], "s")
+            return V.from_file(shared_string(strings, value), "s")
         if kind == "b":
             return V.from_file(bool(int(value)), "b")
         if kind == "str":

@@ -32,10 +32,10 @@ import zipfile
 from collections import defaultdict
 
 from .. import values as V
-from ..writer import _remove, _temp_beside
+from ..gcpause import gc_paused
+from ..writer import _remove, _temp_beside, ooxml_text
 
 CHUNK = 512 * 1024    # (regions of this size keep the per-cell lists small: faster than 4 MB)
-_ILLEGAL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
 _DROP_ATTRS = re.compile(rb"\s(?:t|cm|vm)=\"[^\"]*\"")
 _CALC_REL = re.compile(rb"<Relationship\b[^>]*calcChain[^>]*/>")
 _CALC_TYPE = re.compile(rb"<Override\b[^>]*calcChain[^>]*/>")
@@ -72,6 +72,7 @@ _ROOT = re.compile(rb"<(?:([A-Za-z_][\w.-]*):)?worksheet\b")
 
 
 def _xml_text(text: str) -> str:
+    text = ooxml_text(text)       # (control characters as the format's _xHHHH_ escapes)
     return (text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
             .replace("\r", "&#13;"))
 
@@ -90,8 +91,6 @@ def _value_xml(prefix: str, value) -> bytes:
     if isinstance(value, float):
         return f"><{prefix}v>{value!r}</{prefix}v></{prefix}c>".encode("ascii")
     if isinstance(value, str):
-        if _ILLEGAL.search(value):
-            raise _CannotWrite("text XML cannot hold")
         return (f' t="inlineStr"><{prefix}is><{prefix}t xml:space="preserve">'
                 f"{_xml_text(value)}</{prefix}t></{prefix}is></{prefix}c>").encode()
     raise _CannotWrite(f"value of type {type(value).__name__}")
@@ -252,8 +251,6 @@ class _SheetRewriter:
 def write_fast(recalc, out_path) -> str | None:
     """Write the recalculated copy by rewriting formula cells in place; ``None``
     when the openpyxl writer must do it (nothing is left behind then)."""
-    from .plan import gc_paused
-
     with gc_paused():
         return _write_fast(recalc, out_path)
 
