@@ -44,10 +44,12 @@ def _limits_options(parser: argparse.ArgumentParser) -> None:
 
 
 def _engine_option(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("--engine", choices=("fast", "general"), default="fast",
+    parser.add_argument("--engine", choices=("fast", "general", "calc"), default="fast",
                         help="fast: evaluate same-shape formula cells together as vectors, "
                              "the rest cell by cell (default); general: every cell on its "
-                             "own. Both give the same values.")
+                             "own. Both give the same values. calc: the whole workbook "
+                             "recalculated by LibreOffice Calc (headless, private profile, "
+                             "our extension installed; needs LibreOffice).")
 
 
 def _limits(args):
@@ -104,6 +106,8 @@ def build_parser() -> argparse.ArgumentParser:
     sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot)", add_help=False)
     sub.add_parser("excel-setup", help="set up the Excel add-in (tubefuncs.excel.setup)",
                    add_help=False)
+    sub.add_parser("calc-setup", help="build and install the LibreOffice Calc extension "
+                   "(tubefuncs.calc.setup)", add_help=False)
     return parser
 
 
@@ -200,7 +204,8 @@ def _delegate(module: str, argv) -> int:
 
 COMMANDS = {"recalc": cmd_recalc, "check": cmd_check, "snapshot": cmd_snapshot,
             "demo": cmd_demo}
-DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup"}
+DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup",
+             "calc-setup": "tubefuncs.calc.setup"}
 
 
 def main(argv=None) -> int:
