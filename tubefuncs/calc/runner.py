@@ -91,7 +91,7 @@ class CalcSession:
     """One headless LibreOffice with the extension installed; use as a context manager."""
 
     def __init__(self, oxt: str | os.PathLike | None = None, start_timeout: float = START_TIMEOUT,
-                 request_timeout: float = REQUEST_TIMEOUT):
+                 request_timeout: float = REQUEST_TIMEOUT, profile: Path | None = None):
         self.start_timeout = start_timeout
         self.request_timeout = request_timeout
         self.soffice = find_soffice()
@@ -100,6 +100,7 @@ class CalcSession:
             raise CalcUnavailable(reason)
         self.python = find_uno_python(self.soffice)
         self.tmp = Path(tempfile.mkdtemp(prefix="tubefuncs-calc-"))
+        self.profile = profile or self.tmp / "profile"  # private unless one is given
         self.proc = None
         self._lines: list[str] = []
         self._cond = threading.Condition()
@@ -118,7 +119,7 @@ class CalcSession:
     # -- process ------------------------------------------------------------
 
     def _start(self):
-        profile = (self.tmp / "profile").as_uri()
+        profile = Path(self.profile).resolve().as_uri()
         self._log = open(self.tmp / "soffice.log", "w")
         env = dict(os.environ)
         env.pop("PYTHONPATH", None)       # LibreOffice's Python must not see ours
