@@ -27,6 +27,7 @@ from openpyxl.formula.tokenizer import Token, Tokenizer, TokenizerError
 
 from . import values as V
 from .functions import reference_function, resolve
+from .intersection import annotate, intersect
 from .references import Area
 
 
@@ -291,6 +292,9 @@ class _Compiler:
         if kind == "ref":
             i = node[1]
             return lambda env, slots: slots[i].value(env)
+        if kind == "isect":       # a reference where a plain formula wants one value
+            ref = self.reference(node[1])
+            return lambda env, slots: intersect(ref(env, slots), env, env.host)
         if kind == "un":
             op = _UNARY[node[1]]
             x = self.value(node[2])
@@ -379,11 +383,21 @@ def _failing(problem: str):
     return lambda env, slots: env.fail("#NAME?", problem)
 
 
+def parse_tree(tokens_for_parse: tuple, array: bool = False):
+    """Syntax tree of a formula shape, with the implicit intersections of a
+    plain formula marked (:func:`.intersection.annotate`); raises
+    :class:`FormulaSyntaxError`."""
+    tokens = [Token(v, t, s) for v, t, s in tokens_for_parse]
+    return annotate(_Parser(tokens).parse(), array)
+
+
 @functools.lru_cache(maxsize=20_000)
-def compile_skeleton(key: tuple, tokens_for_parse: tuple) -> Compiled:
+def compile_skeleton(key: tuple, tokens_for_parse: tuple, array: bool = False) -> Compiled:
+    """Compiled closure of a formula shape; ``array``: an array formula (whole
+    ranges everywhere), else a plain one (implicit intersection)."""
     tokens = [Token(v, t, s) for v, t, s in tokens_for_parse]
     try:
-        tree = _Parser(tokens).parse()
+        tree = parse_tree(tokens_for_parse, array)
         comp = _Compiler()
         run = comp.value(tree)
     except (FormulaSyntaxError, KeyError, IndexError, ValueError) as exc:
@@ -394,8 +408,12 @@ def compile_skeleton(key: tuple, tokens_for_parse: tuple) -> Compiled:
                     tuple(comp.functions), skeleton=key)
 
 
-def compile_formula(text: str):
-    """``(Compiled, operand_texts)`` for a formula; never raises."""
+def compile_formula(text: str, array: bool = False):
+    """``(Compiled, operand_texts)`` for a formula; never raises.
+
+    ``array``: the formula is an array formula (``{=...}``, or a dynamic
+    array Excel saved over its spill range): ranges are seen whole.
+    """
     try:
         tokens = tokenize(text)
     except FormulaSyntaxError as exc:
@@ -405,5 +423,5 @@ def compile_formula(text: str):
     # The parser needs real operand texts only to tell slots apart, so the
     # skeleton (slots blanked) is parsed; operand texts are returned per cell.
     compiled = compile_skeleton(key, tuple((v if v != "\x00" else "A1", t or Token.OPERAND,
-                                            s or Token.RANGE) for v, t, s in key))
+                                            s or Token.RANGE) for v, t, s in key), array)
     return compiled, operand_texts(tokens)

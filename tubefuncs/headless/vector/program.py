@@ -123,6 +123,14 @@ class Compiler:
         if kind == "ref":
             i = node[1]
             return lambda ctx: ctx.slot(i)
+        if kind == "isect":        # implicit intersection (see ..intersection)
+            inner = node[1]
+            if inner[0] != "ref":
+                raise NotVectorisable("intersection of a reference expression")
+            i = inner[1]
+            if self.slot_kinds[i] in ("cell", "uniform-cell"):
+                return lambda ctx: ctx.slot(i)
+            return lambda ctx: ctx.slot.intersected(i)
         if kind == "un":
             return self.unary(node[1], self.compile(node[2]))
         if kind == "post":
