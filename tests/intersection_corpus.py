@@ -8,8 +8,9 @@ row ranges and 2-D ranges; each formula is placed inside and outside the
 rows (or columns) of its range.  Data are invented numbers.
 
 Cases where LibreOffice is known to depart from Excel's documented rule
-(an expression given to ``INDEX``'s array argument) are not in it; they are
-tested on their own in ``tests/test_intersection.py``.
+(an expression given to ``INDEX``'s array argument; ``INDEX`` outside its
+range, which LibreOffice answers with ``#VALUE!`` and Excel with ``#REF!``)
+are not in it; they are tested on their own in ``tests/test_intersection.py``.
 """
 
 from __future__ import annotations
@@ -35,6 +36,7 @@ VALUE_USES = [
     "=VLOOKUP({R},Data!$A$3:$B$12,2,FALSE)", "=MATCH({R},{R},0)", "=CHOOSE(2,{R},{R2})",
     "=SUM(CHOOSE(2,{R},{R2}))", "=SUM(IF({R}>30,{R2}))", "=ROUNDDOWN({R}/{R2},1)",
     "=IF(ISNUMBER({R}),{R}*{R2},\"-\")", "=MAX(MIN({R},60),20)", "=ABS({R2}-5)^0.5",
+    "=INDEX({R},0,1)*2", "=INDEX(Data!$A$3:$B$12,0,2)", "=INDEX({R},0)+1",
 ]
 WHOLE_USES = [
     "=SUM({R})", "=AVERAGE({R})", "=MAX({R})", "=MIN({R})", "=COUNT({R})", "=COUNTA({L})",
@@ -47,6 +49,8 @@ WHOLE_USES = [
     "=MATCH(48,{R},0)", "=COUNTIF({L},\"a\")", "=MAX({R})-MIN({R})",
     "=INDEX({R2},MATCH(48,{R},0))", "=VLOOKUP(50,Data!$A$3:$B$12,2,TRUE)",
     "=SUMPRODUCT(({R}>30)*({R2}<8))", "=AVERAGE({R},{R2})", "=COUNTBLANK({R})",
+    "=SUM(INDEX({R},0,1))", "=INDEX({R},4)+0", "=SUM(INDEX(Data!$A$3:$B$12,0,2))",
+    "=INDEX(Data!$A$3:$B$12,3,2)",
 ]
 ARRAY_CELL_USES = [
     "=SUM({R}*2)", "=SUM(({R}>40)*{R2})", "=MAX(IF({R}>40,{R2}))", '=SUM(IF({L}="a",{R},0))',

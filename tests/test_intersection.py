@@ -136,3 +136,19 @@ def test_filled_down_relative_range(tmp_path, engine):
     assert all(r.value("S", f"C{k}") is V.VALUE for k in range(3, 6))
     if engine == "fast":
         assert r.stats.get("vector groups", 0) >= 1
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_index_of_a_reference_is_a_reference(tmp_path, engine):
+    # Excel's INDEX help: the reference form returns a reference; row or column
+    # 0 is the whole column or row; an index outside the range is #REF!
+    # (LibreOffice answers #VALUE! there, so that case is here, not in the corpus).
+    cols = {f"B{k}": float(k) for k in range(3, 8)}
+    r = _calc(tmp_path, {**cols, "D5": "=INDEX(A3:B7,0,2)", "D6": "=INDEX(A3:B7,0,1)*2",
+                         "D9": "=INDEX(A3:B7,0,1)", "D4": "=SUM(INDEX(A3:B7,0,1))",
+                         "D3": "=INDEX(A3:B7,2,2)", "D7": "=INDEX(A3:A7,9)",
+                         "D8": "=INDEX(A3:A7,2)"}, engine)
+    v = lambda c: r.value("S", c)  # noqa: E731
+    assert (v("D5"), v("D6"), v("D4"), v("D3"), v("D8")) == (5.0, 120.0, 250.0, 4.0, 40.0)
+    assert v("D9") is V.VALUE                  # row 9 crosses no cell of A3:A7
+    assert v("D7") is V.REF

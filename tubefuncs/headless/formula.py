@@ -27,7 +27,7 @@ from openpyxl.formula.tokenizer import Token, Tokenizer, TokenizerError
 
 from . import values as V
 from .functions import reference_function, resolve
-from .intersection import annotate, intersect
+from .intersection import annotate, index_reference, intersect, is_reference_node
 from .references import Area
 
 
@@ -311,6 +311,9 @@ class _Compiler:
             a, b = self.value(node[2]), self.value(node[3])
             return lambda env, slots: V.scalar(fn(a(env, slots), b(env, slots)))
         if kind == "call":
+            if _is_index_of_reference(node):
+                ref = self.index_reference(node)
+                return lambda env, slots: env.read_reference(ref(env, slots))
             return self.call(node[1], node[2])
         raise FormulaSyntaxError(f"cannot compile {kind}")  # pragma: no cover
 
@@ -324,8 +327,23 @@ class _Compiler:
             op = node[1]
             a, b = self.reference(node[2]), self.reference(node[3])
             return lambda env, slots: combine_references(op, a(env, slots), b(env, slots))
+        if kind == "call" and _is_index_of_reference(node):
+            return self.index_reference(node)
         value = self.value(node)
         return lambda env, slots: value(env, slots)
+
+    def index_reference(self, node):
+        """INDEX of a reference, as a reference (its value form when that fails)."""
+        fallback = self.call(node[1], node[2])
+        area_of = self.reference(node[2][0])
+        numbers = [self.value(a) for a in node[2][1:]]
+
+        def run(env, slots):
+            area = area_of(env, slots)
+            if not isinstance(area, Area):
+                return fallback(env, slots)
+            return index_reference(area, [n(env, slots) for n in numbers])
+        return run
 
     def call(self, written, arg_nodes):
         res = resolve(written)
@@ -351,6 +369,12 @@ class _Compiler:
             a0 = args[0]
             return lambda env, slots: _guard(env, name, fn, a0(env, slots))
         return lambda env, slots: _guard(env, name, fn, *[a(env, slots) for a in args])
+
+
+def _is_index_of_reference(node) -> bool:
+    """``INDEX(reference, row, [column])``: answered in Excel's reference form."""
+    return (resolve(node[1]).name == "INDEX" and len(node[2]) in (2, 3)
+            and is_reference_node(node[2][0]))
 
 
 def _guard(env, name, fn, *args):

@@ -164,6 +164,9 @@ def _walk(node, position: str):
                 args.append(arg)          # evaluated as an array: nothing below intersects
             else:
                 args.append(_walk(arg, cls))
+        if (target == "INDEX" and position == V_ and len(args) in (2, 3)
+                and is_reference_node(args[0])):
+            return ("isect", ("call", name, args))   # INDEX of a reference is a reference
         return ("call", name, args)
     return node
 
@@ -204,3 +207,41 @@ def intersect(ref, env, host):
     if isinstance(ref, list):
         return env.fail("#VALUE!", "a union of ranges where one value is expected")
     return ref
+
+
+def _index_number(value):
+    value = V.scalar(value)
+    if V.is_error(value):
+        return value
+    if value is V.EMPTY:
+        return 0
+    if isinstance(value, (bool, float, int)):
+        return int(value)
+    try:
+        return int(float(str(value).strip()))
+    except ValueError:
+        return V.VALUE
+
+
+def index_reference(area: Area, numbers: list):
+    """``INDEX(reference, row_num, [column_num])`` as a reference (Excel's
+    reference form: row or column 0 is the whole column or row); an error
+    value for an index out of the area."""
+    rows, cols = area.shape
+    picked = [_index_number(n) for n in numbers]
+    for p in picked:
+        if V.is_error(p):
+            return p
+    if len(picked) == 1:
+        if rows == 1 and cols > 1:
+            r, c = 1, picked[0]          # one row: the number picks a column
+        else:
+            r, c = picked[0], 0 if cols > 1 else 1
+    else:
+        r, c = picked
+    if not (0 <= r <= rows and 0 <= c <= cols):
+        return V.REF
+    r1, r2 = (area.r1, area.r2) if r == 0 else (area.r1 + r - 1,) * 2
+    c1, c2 = (area.c1, area.c2) if c == 0 else (area.c1 + c - 1,) * 2
+    return Area(area.sheet, r1, c1, r2, c2, area.whole_rows and c == 0,
+                area.whole_cols and r == 0)

@@ -226,6 +226,10 @@ class Compiler:
 
     # ------------------------------------------------------------ calls
     def call(self, written, arg_nodes):
+        from ..formula import _is_index_of_reference
+
+        if _is_index_of_reference(("call", written, arg_nodes)):
+            raise NotVectorisable("INDEX of a reference (a reference result)")
         res = resolve(written)
         if res.kind == "unknown":
             return lambda ctx: Vec.full(V.NAME, ctx.n)
@@ -532,6 +536,11 @@ def _patch(out: Vec, slow, compute) -> Vec:
 
 # ----------------------------------------------------------------------------- catalogue
 
+#: Replaces ``worksheet.evaluate`` for the catalogue call of a group when set
+#: (``tubefuncs recalc --dask``: :func:`tubefuncs.sweeps.recalc.dask_groups`).
+group_evaluator = None
+
+
 def catalogue_vector(name: str, one, vs, kinds, n: int) -> Vec:
     """One worksheet call for the group; element by element where it cannot be one call.
 
@@ -571,7 +580,7 @@ def catalogue_vector(name: str, one, vs, kinds, n: int) -> Vec:
                 col[i, 0] = xs[i]
         args.append(col)
     try:
-        result = worksheet.evaluate(name, args)
+        result = (group_evaluator or worksheet.evaluate)(name, args)
     except TubeInputError:
         return elementwise(one, vs, n, general)
     except Exception:  # a physics module failing on the column: cell by cell
