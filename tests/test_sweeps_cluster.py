@@ -50,7 +50,7 @@ def tolerance_raw(points, chunk):
 @pytest.fixture(scope="module")
 def cluster():
     with distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
-                                  host="127.0.0.1", dashboard_address=None,
+                                  host="127.0.0.1", dashboard_address="127.0.0.1:0",
                                   worker_dashboard_address=None) as lc:
         with distributed.Client(lc) as client:
             yield lc, client

@@ -140,7 +140,7 @@ def processes(points: int | None, repeat: int) -> None:
     times = {}
     for n in (1, 2):
         with LocalCluster(n_workers=n, threads_per_worker=1, processes=True,
-                          host="127.0.0.1", dashboard_address=None) as lc, Client(lc) as c:
+                          host="127.0.0.1", dashboard_address="127.0.0.1:0") as lc, Client(lc) as c:
             run_sweep(slow_study(4)[1], scheduler=c)                 # warm the workers
             best = float("inf")
             for _ in range(max(1, repeat // 3)):
