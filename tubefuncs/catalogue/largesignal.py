@@ -27,10 +27,15 @@ DRIVE = Param("drive_power", "Available power of the matched drive generator at 
               "port; a range gives the transfer curve.", unit="W", domain=POSITIVE)
 DRIVE_PARAMS = BEAM_PARAMS + (DRIVE,)
 
-# The table and radius checks of TUBE_SMALL_SIGNAL_GAIN; its half-plasma-wavelength
-# spacing rule is a limit of the small-signal model only and does not apply here.
-_TABLE_CHECKS = tuple(c for c in _gain_catalogue.CHECKS
-                      if c.test is not _gain_catalogue.gain.cavity_spacing_ok)
+# The table and radius checks of TUBE_SMALL_SIGNAL_GAIN (those on its own arguments),
+# and its validity limits (gain.cavity_limits: overlapping gaps, tunnel above cutoff,
+# current above the limiting current, negative net cavity conductance) with the
+# default conventions.
+_BEAM_NAMES = {p.name for p in BEAM_PARAMS}
+_TABLE_CHECKS = tuple(c for c in _gain_catalogue.CHECKS if set(c.args) <= _BEAM_NAMES) + (
+    Check(tuple(p.name for p in BEAM_PARAMS), _gain_catalogue._limits_ok,
+          _gain_catalogue._limits_text),
+)
 
 DRIVE_CHECKS = _TABLE_CHECKS + (
     Check(tuple(p.name for p in DRIVE_PARAMS), ls.drive_ok, ls.drive_message),
