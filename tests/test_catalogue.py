@@ -20,7 +20,7 @@ TUBE_PILLBOX_FREQ TUBE_SKIN_DEPTH TUBE_SURFACE_RESISTANCE TUBE_PILLBOX_Q
 TUBE_PILLBOX_R_OVER_Q TUBE_LOADED_Q TUBE_GAP_VOLTAGE TUBE_SMALL_SIGNAL_GAIN
 TUBE_SMALL_SIGNAL_PHASE TUBE_AVERAGE_POWER TUBE_COLLECTOR_POWER TUBE_COOLANT_FLOW
 TUBE_WAVEGUIDE_CUTOFF TUBE_WAVEGUIDE_LOSS TUBE_FSPL TUBE_DISH_GAIN TUBE_CN0
-TUBE_SALEH_AMPLITUDE TUBE_SALEH_PHASE TUBE_CONVERT TUBE_HELP TUBE_VERSION
+TUBE_SALEH_AMPLITUDE TUBE_SALEH_PHASE TUBE_IN TUBE_HELP TUBE_VERSION
 """.split()
 
 # Functions whose results size HV, RF power or cooling carry a caution (design.md).
@@ -59,7 +59,9 @@ def test_design_argument_order(name, order):
 @pytest.mark.parametrize("fn", CATALOGUE.values(), ids=list(CATALOGUE))
 def test_declaration_is_consistent(fn):
     assert fn.name.startswith("TUBE_") and fn.name == fn.name.upper()
-    assert fn.python_name == fn.name[5:].lower(), "Python twin is the snake-case name"
+    # (TUBE_IN's twin is in_unit: "in" is a Python keyword)
+    twin = "in_unit" if fn.name == "TUBE_IN" else fn.name[5:].lower()
+    assert fn.python_name == twin, "Python twin is the snake-case name"
     assert getattr(tubefuncs, fn.python_name) is fn.func
     assert 0 < len(fn.help) <= 255
     # Parameters of the twin match the catalogue: same names, order and defaults.

@@ -72,11 +72,11 @@ def test_bad_text_is_a_unit_text_error(text, unit, fragment):
 
 def test_parse_results_are_cached():
     units.to_si("7.5 kV", "V")
-    assert ("7.5 kV", "V", False) in units._PARSED
+    assert ("7.5 kV", "V", False, None) in units._PARSED
     # errors are cached too: the message comes back without re-parsing
     with pytest.raises(units.UnitTextError):
         units.to_si("7.5 kv", "V")
-    assert isinstance(units._PARSED[("7.5 kv", "V", False)], str)
+    assert isinstance(units._PARSED[("7.5 kv", "V", False, None)], str)
 
 
 def test_result_converter():
@@ -103,12 +103,39 @@ def test_db_functions():
     np.testing.assert_allclose(units.watts_to_dbm([1e-3, 1.0]), [0.0, 30.0])
 
 
-def test_convert():
-    assert units.convert(30, "dBm", "W") == pytest.approx(1.0)
-    assert units.convert(1, "kW", "dBm") == pytest.approx(60.0)
-    assert units.convert(100, "degC", "K") == pytest.approx(373.15)   # ITS-90 offset
-    assert units.convert(25, "degC", "degF") == pytest.approx(77.0)
-    assert units.convert(1, "in", "mm") == pytest.approx(25.4)        # exact by definition
-    np.testing.assert_allclose(units.convert([1, 2], "GHz", "MHz"), [1000, 2000])
+def test_in_unit():
+    assert units.in_unit("30 dBm", "W") == pytest.approx(1.0)
+    assert units.in_unit("1 kW", "dBm") == pytest.approx(60.0)
+    assert units.in_unit("100 degC", "K") == pytest.approx(373.15)   # ITS-90 offset
+    assert units.in_unit("25 degC", "degF") == pytest.approx(77.0)
+    assert units.in_unit("1 in", "mm") == pytest.approx(25.4)        # exact by definition
+    np.testing.assert_allclose(units.in_unit(["1 GHz", "2 GHz"], "MHz"), [1000, 2000])
     with pytest.raises(units.UnitTextError):
-        units.convert(1, "dBm", "m")
+        units.in_unit("1 dBm", "m")
+
+
+def test_unit_text_caches_are_bounded_and_keep_no_long_keys():
+    before = len(units._PARSED)
+    for i in range(200):
+        with pytest.raises(units.UnitTextError, match="too long"):
+            units.to_si("x" * 32_000 + str(i), "V")
+    assert len(units._PARSED) == before                 # long texts never become keys
+    assert all(len(k[0]) <= units.MAX_TEXT for k in units._PARSED)
+    for i in range(units.MAX_CACHED + 10):
+        units._PARSED[(f"{i} V", "V", False, None)] = float(i)
+    units.to_si("7 kV", "V")
+    assert len(units._PARSED) <= units.MAX_CACHED
+    with pytest.raises(units.UnitTextError, match="too long"):
+        units.result_converter("m" * 1000, "m")
+
+
+@pytest.mark.parametrize("text, unit", [("30 deg", ""), ("5 deg*m", "m"), ("5 mm%", "m"),
+                                        ("30 dB", ""), ("1 Np", ""), ("1 V dB", "V")])
+def test_angles_levels_and_percents_are_not_plain_ratios_or_factors(text, unit):
+    with pytest.raises(units.UnitTextError):
+        units.to_si(text, unit)
+
+
+def test_decimal_comma_hint():
+    with pytest.raises(units.UnitTextError, match="decimal point"):
+        units.to_si("1,5 mm", "m")

@@ -91,7 +91,7 @@ def test_text_results_and_convert():
     assert "TUBE_VELOCITY(voltage, [unit])" in call("TUBE_HELP", "tube_velocity")
     # functions that size HV, RF power or cooling repeat their caution (design.md)
     assert "local codes" in call("TUBE_HELP", "TUBE_COOLANT_FLOW")
-    assert call("TUBE_CONVERT", 30, "dBm", "W") == pytest.approx(1.0)
+    assert call("TUBE_IN", "30 dBm", "W") == pytest.approx(1.0)   # 1 mW * 10^3
     with pytest.raises(TubeInputError) as info:
         call("TUBE_HELP", "TUBE_NOPE")
     assert info.value.error_value == "#VALUE!"
@@ -104,3 +104,85 @@ def test_checks_use_numpy_arithmetic_on_single_values():
         call("TUBE_WAVEGUIDE_LOSS", 1e-300, 1.0, 1.0, 0.0)
     out = evaluate("TUBE_WAVEGUIDE_LOSS", [1e-300, 1.0, 1.0, [[0.0], [1.0]]])
     assert set(out.errors) == {(0, 0), (1, 0)}
+
+
+# --- TUBE_IN (figures of the issue; dBm = 10 log10(P / 1 mW), common practice) ----------
+
+def test_tube_in_figures():
+    assert call("TUBE_IN", "1 ms") == pytest.approx(0.001)
+    assert call("TUBE_IN", "2 kW", "dBm") == pytest.approx(63.0103, abs=5e-5)  # 10 log10(2e6)
+    assert call("TUBE_IN", 2000, "dBm") == pytest.approx(63.0103, abs=5e-5)    # a number: SI (W)
+    assert call("TUBE_IN", "43 dBm", "W") == pytest.approx(19.95, abs=5e-3)    # 10^4.3 mW
+    assert call("TUBE_IN", "4.5 us", "ns") == pytest.approx(4500)
+    assert call("TUBE_IN", "20 degC", "K") == pytest.approx(293.15)            # ITS-90 offset
+    np.testing.assert_allclose(call("TUBE_IN", [["1 ms", "2 s"]], "ms"), [[1.0, 2000.0]])
+
+
+@pytest.mark.parametrize("args, words", [
+    (("2 kW", "m"), ["'kW'", "'m'", "different dimensions"]),
+    (("1 GHz", "rad/s"), ["2 pi"]),            # an angular frequency is not a plain scale
+    (("1 Np", "dB"), ["logarithmic"]),          # no plain tested conversion
+    (("1,5 mm", "m"), ["decimal point"]),
+])
+def test_tube_in_refusals(args, words):
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_IN", *args)
+    assert info.value.error_value == "#VALUE!"
+    for word in words:
+        assert word in str(info.value)
+
+
+def test_no_former_conversion_name():
+    from tubefuncs.catalogue import lookup
+
+    assert lookup("TUBE_CONVERT") is None
+
+
+def test_python_api_inputs_are_our_input_errors_or_right_answers():
+    from tubefuncs.errors import CellError
+
+    with pytest.raises(TubeInputError, match="401 digits"):
+        call("TUBE_GAMMA", 10**400)
+    # 0-d arrays in a list are values: gamma = 1 + eV/(m c^2), 5 V (CODATA via scipy)
+    from scipy.constants import e, electron_mass, speed_of_light
+    expected = 1 + e * 5.0 / (electron_mass * speed_of_light ** 2)
+    np.testing.assert_allclose(call("TUBE_GAMMA", [np.array(5.0)]), [[expected]])
+    with pytest.raises(TubeInputError, match="logarithmic"):
+        call("TUBE_GAMMA", "1 V dB")
+    with pytest.raises(TubeInputError, match="not an error value"):
+        call("TUBE_GAMMA", CellError("#BOGUS"))
+    with pytest.raises(TubeInputError, match="masked"):
+        call("TUBE_GAMMA", np.ma.array([5.0, 6.0], mask=[False, True]))
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_SMALL_SIGNAL_GAIN", "3 GHz", "90 kV", "27 A", "4 mm", "6 mm", [[1, 2, 3]],
+             "circuit", 5)
+    assert info.value.error_value == "#VALUE!"
+
+
+def test_db_valued_arguments_read_db_text_as_the_number():
+    # EIRP [dBW] = 10 log10(P/1 W) + G - L (common practice): 1 kW, 30 dBi -> 60 dBW
+    assert call("TUBE_EIRP", "1 kW", "30 dB") == pytest.approx(60.0)
+    assert call("TUBE_EIRP", "1 kW", "30 dBi", "3 dB") == pytest.approx(57.0)
+    # G/T = G - 10 log10(T): 40 dB, 100 K -> 20 dB/K
+    assert call("TUBE_G_OVER_T", "40 dB", 100) == pytest.approx(20.0)
+    with pytest.raises(TubeInputError, match="dBm"):
+        call("TUBE_EIRP", "1 kW", "30 dBm")        # a power level where a ratio is meant
+
+
+@pytest.mark.parametrize("text", ["30 deg", "30 dB", "5 mm%"])
+def test_a_ratio_is_not_an_angle_a_level_or_a_percent_of_a_length(text):
+    with pytest.raises(TubeInputError):
+        call("TUBE_LOADED_Q", text, 1000)
+
+
+def test_lost_quote_in_lookup_messages():
+    with pytest.raises(TubeInputError) as info:
+        call("TUBE_HELP", "TUBE_NOPE")
+    text = str(info.value)
+    assert text.count("'") % 2 == 0, text
+
+
+def test_catalogue_broadcast_is_bounded_before_it_is_computed():
+    with pytest.raises(TubeInputError, match="over the limit") as info:
+        call("TUBE_BEAM_POWER", np.ones((10_000, 1)), np.ones((1, 10_000)))
+    assert info.value.error_value == "#NUM!"

@@ -130,10 +130,53 @@ def _dimensionality(unit: str):
     return ureg.parse_units(unit).dimensionality if unit else ureg.dimensionless.dimensionality
 
 
-_PARSED: dict[tuple[str, str, bool], float | str] = {}
+_PARSED: dict[tuple, float | str] = {}
+#: Entries kept in each unit-text cache (keys are at most MAX_TEXT characters).
+MAX_CACHED = 100_000
+
+#: dB-valued arguments, by the suffix of their name: the unit texts each accepts
+#: and the offset to add (a level in dBm given for dBW is 30 dB lower).
+DB_LEVELS = {
+    "_db": {"dB": 0.0},
+    "_dbi": {"dBi": 0.0, "dB": 0.0},
+    "_dbw": {"dBW": 0.0, "dBm": -30.0},
+    "_dbk": {"dB/K": 0.0, "dBK": 0.0, "dB K^-1": 0.0},
+    "_dbhz": {"dB-Hz": 0.0, "dBHz": 0.0},
+}
+_LEVEL_RE = re.compile(rf"^\s*({_NUMBER})\s*(\S.*?)\s*$")
+#: Logarithmic units (pint reads "30 dB" as a power ratio of 1000): never a plain ratio.
+_LOG_UNITS = re.compile(r"(?<![A-Za-z_])(dB\w*|B|Np|neper|bel|decibel|octave|decade)"
+                        r"(?![A-Za-z_])")
+#: Angle units, dimensionless to pint but never a plain ratio or a factor of a length.
+_ANGLE_UNITS = frozenset({"radian", "degree", "arcminute", "arcsecond", "turn", "revolution",
+                          "gradian", "grade", "milliradian", "microradian", "steradian",
+                          "square_degree", "cycle"})
+_RATIO_UNITS = frozenset({"percent", "permille", "ppm", "ppb", "ppt", "dimensionless"})
 
 
-def to_si(text: str, unit: str, difference: bool = False) -> float:
+def db_level(param_name: str):
+    """The dB texts a dB-valued argument accepts (by its name's suffix), or None."""
+    for suffix, texts in DB_LEVELS.items():
+        if param_name.endswith(suffix):
+            return suffix
+    return None
+
+
+def _level(text: str, suffix: str) -> float:
+    m = _LEVEL_RE.match(text)
+    accepted = DB_LEVELS[suffix]
+    if m:
+        number, unit_text = float(m.group(1)), m.group(2)
+        if unit_text in accepted:
+            return number + accepted[unit_text]
+        words = ", ".join(f"'{u}'" for u in accepted)
+        raise UnitTextError(f"is a value in {next(iter(accepted))}: write a number or a number "
+                            f"with {words} (got the unit '{unit_text[:20]}')")
+    raise UnitTextError(f"cannot read it as a value in {next(iter(accepted))}: write a "
+                        f"number, e.g. '30' or '30 {next(iter(accepted))}'")
+
+
+def to_si(text: str, unit: str, difference: bool = False, level: str | None = None) -> float:
     """Value of a worksheet text in the SI unit ``unit``.
 
     Parameters
@@ -150,14 +193,18 @@ def to_si(text: str, unit: str, difference: bool = False) -> float:
     UnitTextError
         Unparsable text, unknown unit or wrong dimension; the message says why.
     """
-    key = (text, unit, difference)
+    if len(text) > MAX_TEXT:   # (never a cache key: texts of any length stay out)
+        name = dimension_name(unit)[0]
+        raise UnitTextError(f"text is too long for a {name} (at most {MAX_TEXT} characters)")
+    key = (text, unit, difference, level)
     hit = _PARSED.get(key)
     if hit is None:
         try:
-            hit = _parse(text, unit, difference)
+            hit = _level(text, level) if level is not None and not _NUMBER_RE.match(text) \
+                else _parse(text, unit, difference)
         except UnitTextError as exc:
             hit = str(exc)
-        if len(_PARSED) > 100_000:
+        if len(_PARSED) >= MAX_CACHED:
             _PARSED.clear()
         _PARSED[key] = hit
     if isinstance(hit, str):
@@ -177,6 +224,9 @@ def _parse(text: str, unit: str, difference: bool) -> float:
         if db:
             level = float(db.group(1))
             return dbm_to_watts(level) if db.group(2) == "dBm" else dbw_to_watts(level)
+    if re.match(r"^\s*[+-]?\d+,\d", text):
+        raise UnitTextError(f"cannot read it as a {name}: write the decimal point as "
+                            f"'.', not ',' (e.g. '{example}')")
     match = _QUANTITY_RE.match(text)
     if not match or not match.group(2):
         raise UnitTextError(f"cannot read it as a {name}: write a number and a unit, "
@@ -192,19 +242,47 @@ def _parse(text: str, unit: str, difference: bool) -> float:
         unit_text = _DEGREES_F.sub("delta_degF", unit_text)
     if unit == "Hz" and "rad" in unit_text:
         raise UnitTextError("give a frequency in Hz, not an angular frequency in rad/s")
+    if _LOG_UNITS.search(unit_text) and unit != "W":
+        raise UnitTextError(f"'{unit_text}' is a logarithmic unit; this argument takes a "
+                            f"{name}, e.g. '{example}' (dB values go to dB arguments)")
     try:
         parsed = ureg.parse_units(unit_text)
+        dimensionality = parsed.dimensionality
     except Exception:  # pint raises several kinds; all mean "unknown unit"
         raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive; "
                             f"e.g. '{example}')") from None
-    if parsed.dimensionality != _dimensionality(unit):
+    if dimensionality != _dimensionality(unit):
         raise UnitTextError(f"'{unit_text}' is not a unit of {name} (e.g. '{example}')")
+    _plain_kinds(unit_text, parsed, unit, name, example)
     try:
         value = ureg.Quantity(number, parsed).to(unit or ureg.dimensionless).magnitude
     except Exception:
         raise UnitTextError(f"cannot convert '{unit_text}' to {unit or 'a plain number'}"
                             ) from None
     return float(value)
+
+
+def _plain_kinds(unit_text: str, parsed, unit: str, name: str, example: str) -> None:
+    """Refuse what pint's dimensions let through but is not plainly the quantity:
+    a logarithmic unit ("30 dB" would be a ratio of 1000), an angle where a
+    ratio or a length is meant ("30 deg" coupling, "5 deg*m"), a percent
+    inside a compound unit ("5 mm%")."""
+    if _LOG_UNITS.search(unit_text):
+        raise UnitTextError(f"'{unit_text}' is a logarithmic unit; this argument takes a "
+                            f"{name}, e.g. '{example}' (dB values go to dB arguments)")
+    names = set(parsed._units)
+    angles = names & _ANGLE_UNITS
+    ratios = names & _RATIO_UNITS
+    if unit == "rad":
+        if names - _ANGLE_UNITS - {"second", "hertz"} and not names <= _ANGLE_UNITS:
+            raise UnitTextError(f"'{unit_text}' is not an angle (e.g. '{example}')")
+        return
+    if angles:
+        raise UnitTextError(f"'{unit_text}' holds an angle, which is not a {name} "
+                            f"(e.g. '{example}')")
+    if ratios and (len(names) > 1 or unit != ""):
+        raise UnitTextError(f"'{unit_text}' mixes a ratio unit into a {name} "
+                            f"(e.g. '{example}')")
 
 
 # --- results ---------------------------------------------------------------
@@ -217,6 +295,8 @@ def result_converter(unit_text: str, result_unit: str):
 
     Raises UnitTextError when the unit is unknown or of another dimension.
     """
+    if len(unit_text) > MAX_TEXT:   # (never a cache key)
+        raise UnitTextError(f"unit text is too long (at most {MAX_TEXT} characters)")
     key = (unit_text, result_unit)
     hit = _CONVERTERS.get(key)
     if hit is None:
@@ -224,6 +304,8 @@ def result_converter(unit_text: str, result_unit: str):
             hit = _make_converter(unit_text.strip(), result_unit)
         except UnitTextError as exc:
             hit = str(exc)
+        if len(_CONVERTERS) >= MAX_CACHED:
+            _CONVERTERS.clear()
         _CONVERTERS[key] = hit
     if isinstance(hit, str):
         raise UnitTextError(hit)
@@ -242,13 +324,18 @@ def _make_converter(unit_text: str, result_unit: str):
     if len(unit_text) > MAX_TEXT or not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(
             unit_text):
         raise UnitTextError(f"cannot read the unit '{unit_text}'")
+    if _LOG_UNITS.search(unit_text):
+        raise UnitTextError(f"'{unit_text}' is a logarithmic unit; only dBm and dBW are "
+                            f"converted (power results)")
     try:
         target = ureg.parse_units(unit_text)
+        target.dimensionality
     except Exception:
         raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None
     if target.dimensionality != _dimensionality(result_unit):
         raise UnitTextError(f"'{unit_text}' is not a unit of {name} (the result is in "
                             f"{result_unit})")
+    _plain_kinds(unit_text, target, result_unit, name, example)
     if result_unit == "Hz" and "rad" in unit_text:
         raise UnitTextError("a frequency result cannot be given in rad/s; use Hz")
     factor = float(ureg.Quantity(1.0, result_unit).to(target).magnitude)
@@ -312,63 +399,126 @@ def amplitude_ratio_to_db(ratio):
     return np.where(r > 0, out, np.nan)[()]
 
 
-# --- TUBE_CONVERT ------------------------------------------------------------
+# --- TUBE_IN ------------------------------------------------------------------
 
 _DB_LEVELS = {"dBm": ("W", watts_to_dbm, dbm_to_watts), "dBW": ("W", watts_to_dbw, dbw_to_watts)}
 
 
-def convert(value, from_unit, to_unit):
-    """Convert ``value`` from one unit to another (dBm and dBW for power included).
+def in_unit(quantity, unit=None):
+    """A quantity as a number in a chosen unit (the twin of ``TUBE_IN``).
 
     Parameters
     ----------
-    value : numeric
-        The number to convert, in ``from_unit``.
-    from_unit, to_unit : str
-        Unit texts of the same dimension ("kW", "dBm", "GHz", "uperv", ...).
+    quantity : numeric or str
+        A number in SI, or text holding a number and a unit ("4.5 us", "2 kW",
+        "43 dBm"); an array of either gives an array.
+    unit : str, optional
+        The unit wanted ("ns", "dBm", "MHz"...); omitted or empty: the SI unit of
+        the quantity's dimension.  A plain number ``quantity`` is read in the SI
+        unit of this unit's dimension.
 
     Returns
     -------
     numeric
-        ``value`` expressed in ``to_unit``; NaN where a dB level cannot be formed
-        (power <= 0).
+        The quantity in ``unit``; NaN where a dB level cannot be formed (power <= 0).
 
     Raises
     ------
-    ValueError
-        Unknown unit or units of different dimensions.
+    UnitTextError
+        Unreadable text, an unknown unit, or a unit of another dimension (the
+        message names both units); conversions that are not plain scale factors
+        or offsets (an angular frequency to Hz, nepers to decibels) are refused.
     """
-    forward = _unit_to_si(from_unit)
-    backward = _unit_from_si(to_unit)
-    if forward[0] != backward[0]:
-        raise UnitTextError(f"cannot convert '{from_unit}' to '{to_unit}': different dimensions")
-    si = forward[1](np.asarray(value, dtype=float))
-    return np.asarray(backward[1](si), dtype=float)[()]
+    unit = "" if unit is None else str(unit).strip()
+    if isinstance(quantity, (list, tuple, np.ndarray)) and not (
+            isinstance(quantity, np.ndarray) and quantity.ndim == 0):
+        items = np.asarray(quantity, dtype=object)
+        out = np.empty(items.shape, dtype=float)
+        for idx, item in np.ndenumerate(items):
+            try:
+                out[idx] = in_unit(item, unit)
+            except UnitTextError:
+                if items.size == 1:
+                    raise
+                out[idx] = np.nan     # (an element that cannot be read: NaN, the others kept)
+        return out
+    if isinstance(quantity, np.ndarray):
+        quantity = quantity.item()
+    backward = _unit_from_si(unit) if unit else None
+    if isinstance(quantity, str):
+        text = quantity.strip()
+        if len(text) > MAX_TEXT:
+            raise UnitTextError(f"text is too long (at most {MAX_TEXT} characters)")
+        plain = _NUMBER_RE.match(text)
+        if plain:
+            number, source = float(plain.group(1)), ""
+        else:
+            if re.match(r"^\s*[+-]?\d+,\d", text):
+                raise UnitTextError(f"cannot read {text!r}: write the decimal point as '.', "
+                                    f"not ','")
+            m = _QUANTITY_RE.match(text)
+            if not m or not m.group(2):
+                raise UnitTextError(f"cannot read {text[:40]!r}: write a number and a unit, "
+                                    f"e.g. '4.5 us'")
+            number, source = float(m.group(1)), m.group(2)
+    elif isinstance(quantity, (bool, np.bool_)) or not isinstance(
+            quantity, (int, float, np.integer, np.floating)):
+        raise UnitTextError(f"quantity must be a number or text with a unit (got "
+                            f"{type(quantity).__name__})")
+    else:
+        try:
+            number, source = float(quantity), None
+        except OverflowError:
+            raise UnitTextError("quantity is too large for a number") from None
+    if not math.isfinite(number):
+        raise UnitTextError("quantity must be a finite number")
+    if source is None or source == "":
+        if backward is None:
+            return number
+        return float(np.asarray(backward[1](np.asarray(number)), dtype=float))
+    forward = _unit_to_si(source)
+    if backward is None:
+        return float(np.asarray(forward[1](np.asarray(number)), dtype=float))
+    if forward[0] != backward[0] or forward[2] != backward[2]:
+        raise UnitTextError(f"cannot convert '{source}' to '{unit}': "
+                            + ("one is an angular quantity (rad) and the other is not; "
+                               "converting needs a factor of 2 pi" if forward[0] == backward[0]
+                               else "different dimensions"))
+    si = forward[1](np.asarray(number, dtype=float))
+    return float(np.asarray(backward[1](si), dtype=float))
+
+
+def _angle_power(q) -> float:
+    """The exponent of angle units in a unit (rad/s: 1; Hz: 0)."""
+    return float(sum(e for n, e in q._units.items() if n in _ANGLE_UNITS))
 
 
 def _unit_to_si(unit_text: str):
+    """(dimensionality, function to SI, angle exponent) of a unit text."""
     unit_text = unit_text.strip()
     if unit_text in _DB_LEVELS:
         base, _, to_watts = _DB_LEVELS[unit_text]
-        return _dimensionality(base), to_watts
+        return _dimensionality(base), to_watts, 0.0
     q = _checked_units(unit_text)
     if _is_offset(unit_text):
-        return q.dimensionality, lambda v: ureg.Quantity(v, q).to_base_units().magnitude
+        return (q.dimensionality, lambda v: ureg.Quantity(v, q).to_base_units().magnitude,
+                _angle_power(q))
     factor = ureg.Quantity(1.0, q).to_base_units().magnitude
-    return q.dimensionality, lambda v: v * factor
+    return q.dimensionality, lambda v: v * factor, _angle_power(q)
 
 
 def _unit_from_si(unit_text: str):
     unit_text = unit_text.strip()
     if unit_text in _DB_LEVELS:
         base, from_watts, _ = _DB_LEVELS[unit_text]
-        return _dimensionality(base), from_watts
+        return _dimensionality(base), from_watts, 0.0
     q = _checked_units(unit_text)
     base = ureg.Quantity(1.0, q).to_base_units().units
     if _is_offset(unit_text):
-        return q.dimensionality, lambda v: ureg.Quantity(v, base).to(q).magnitude
+        return (q.dimensionality, lambda v: ureg.Quantity(v, base).to(q).magnitude,
+                _angle_power(q))
     factor = ureg.Quantity(1.0, base).to(q).magnitude
-    return q.dimensionality, lambda v: v * factor
+    return q.dimensionality, lambda v: v * factor, _angle_power(q)
 
 
 def _is_offset(unit_text: str) -> bool:
@@ -384,8 +534,13 @@ def _checked_units(unit_text: str):
         return ureg.dimensionless
     if len(unit_text) > MAX_TEXT or not _UNIT_RE.match(unit_text) or _LONG_DIGITS.search(
             unit_text):
-        raise UnitTextError(f"cannot read the unit '{unit_text}'")
+        raise UnitTextError(f"cannot read the unit '{unit_text[:MAX_TEXT]}'")
+    if _LOG_UNITS.search(unit_text):
+        raise UnitTextError(f"'{unit_text}' is a logarithmic unit; only dBm and dBW (power) "
+                            f"are converted, as plain tested functions")
     try:
-        return ureg.parse_units(unit_text)
+        q = ureg.parse_units(unit_text)
+        q.dimensionality
+        return q
     except Exception:
         raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None

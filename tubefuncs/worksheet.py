@@ -27,9 +27,15 @@ import numpy as np
 from .catalogue import lookup
 from .catalogue.spec import Function, Param
 from .errors import NAME, NUM, VALUE, CellError, TubeInputError, show_value
-from .units import UnitTextError, apply_converter, result_converter, to_si
+from .units import UnitTextError, apply_converter, db_level, result_converter, to_si
 
 _NUMBER_TYPES = (float, int, np.floating, np.integer)
+#: Elements of the broadcast of a call's range arguments (a bound checked
+#: before any element is converted: 10,000 x 10,000 is refused, not computed).
+MAX_BROADCAST = 5_000_000
+#: Error codes a cell can hold (Excel's); anything else passed as an error is refused.
+_ERROR_CODES = frozenset({"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
+                          "#SPILL!", "#CALC!", "#GETTING_DATA"})
 
 
 @dataclass
@@ -109,8 +115,16 @@ class _Call:
     def run(self) -> Evaluation:
         fn = self.fn
         n_args = len(self.args)
+        raw_args = fn.extra.get("raw_args", ())
+        if raw_args:
+            spread = self.per_element(raw_args)
+            if spread is not None:
+                return spread
         for i, param in enumerate(self.params):
             raw = self.args[i] if i < n_args else None
+            if param.name in raw_args:
+                self.values.append(self.raw_argument(param, raw))
+                continue
             if param.name == "unit" and fn.takes_unit and i == len(self.params) - 1:
                 self.unit = self.text_argument(param, raw)
                 continue
@@ -138,6 +152,49 @@ class _Call:
             raise value
         return value
 
+    def per_element(self, raw_args) -> Evaluation | None:
+        """A range in an argument the function reads itself (TUBE_IN's quantity):
+        each element evaluated as a single call, its error kept per element."""
+        for i, param in enumerate(self.params):
+            raw = self.args[i] if i < len(self.args) else None
+            if param.name not in raw_args or not isinstance(raw, (list, tuple, np.ndarray)) \
+                    or (isinstance(raw, np.ndarray) and raw.ndim == 0):
+                continue
+            grid = _as_grid(raw)
+            if isinstance(grid, str):
+                raise self.error(param, grid)
+            self.broadcast_with(param, grid.shape)
+            out = np.full(grid.shape, np.nan)
+            errors = {}
+            for idx, item in np.ndenumerate(grid):
+                args = list(self.args)
+                args[i] = item
+                try:
+                    out[idx] = float(_Call(self.fn, self.params, args).run().value)
+                except TubeInputError as exc:
+                    errors[(int(idx[0]), int(idx[1]))] = exc
+            return Evaluation(out, errors)
+        return None
+
+    def raw_argument(self, param: Param, raw):
+        """A number or a text with a unit, handed to the function as it is (TUBE_IN
+        reads the unit itself); a range broadcasts."""
+        if isinstance(raw, (list, tuple, np.ndarray)) and not (
+                isinstance(raw, np.ndarray) and raw.ndim == 0):
+            grid = _as_grid(raw)
+            if isinstance(grid, str):
+                raise self.error(param, grid)
+            self.broadcast_with(param, grid.shape)
+            return grid
+        if raw is None or (isinstance(raw, str) and raw.strip() == ""):
+            raise self.error(param, "is required (got an empty cell)")
+        if isinstance(raw, CellError):
+            raise _cell_error(self.fn.name, param, raw)
+        if isinstance(raw, (bool, np.bool_)):
+            raise self.error(param, "must be a number or text with a unit (got "
+                             f"{'TRUE' if raw else 'FALSE'})")
+        return raw
+
     def number_scalar(self, param: Param, raw):
         """SI float, None (optional omitted), or a TubeInputError (not raised)."""
         if raw is None or (isinstance(raw, str) and raw.strip() == ""):
@@ -147,16 +204,21 @@ class _Call:
         if isinstance(raw, (bool, np.bool_)):
             return self.error(param, f"must be a number or a number with a unit (got "
                               f"{'TRUE' if raw else 'FALSE'})")
+        if isinstance(raw, np.ndarray) and raw.ndim == 0:
+            raw = raw.item()
         if isinstance(raw, _NUMBER_TYPES):
-            value = float(raw)
+            try:
+                value = float(raw)
+            except OverflowError:
+                return self.error(param, f"must be a finite number (got an integer of "
+                                  f"{len(str(abs(int(raw))))} digits)", NUM)
         elif isinstance(raw, str):
             try:
-                value = to_si(raw, param.unit, param.difference)
+                value = to_si(raw, param.unit, param.difference, db_level(param.name))
             except UnitTextError as exc:
                 return self.error(param, f"{show_value(raw)}: {exc}")
         elif isinstance(raw, CellError):
-            return TubeInputError(raw.message or f"{self.fn.name}: {param.name} is {raw.code}",
-                                  raw.code, function=self.fn.name, argument=param.name)
+            return _cell_error(self.fn.name, param, raw)
         else:
             return self.error(param, f"must be a number or text (got {type(raw).__name__})")
         if not param.domain.ok_scalar(value):
@@ -210,6 +272,10 @@ class _Call:
         except ValueError:
             raise self.error(param, f"range of shape {shape[0]}x{shape[1]} does not match the "
                              f"other ranges ({self.shape[0]}x{self.shape[1]})") from None
+        if math.prod(self.shape) > MAX_BROADCAST:
+            raise self.error(param, f"the ranges broadcast to {self.shape[0]:,}x"
+                             f"{self.shape[1]:,} = {math.prod(self.shape):,} elements, over "
+                             f"the limit of {MAX_BROADCAST:,}", NUM)
 
     def text_argument(self, param: Param, raw):
         if raw is None or (isinstance(raw, str) and raw.strip() == ""):
@@ -217,8 +283,7 @@ class _Call:
                 raise self.error(param, "is required (got an empty cell)")
             return param.default
         if isinstance(raw, CellError):
-            raise TubeInputError(raw.message or f"{self.fn.name}: {param.name} is {raw.code}",
-                                 raw.code, function=self.fn.name, argument=param.name)
+            raise _cell_error(self.fn.name, param, raw)
         if isinstance(raw, np.ndarray) and raw.size == 1:
             raw = raw.reshape(-1)[0]
         if isinstance(raw, (list, tuple)) and len(raw) == 1:
@@ -280,7 +345,9 @@ class _Call:
             with np.errstate(all="ignore"):
                 return self.fn.func(*values)
         except (UnitTextError, LookupError, TypeError) as exc:
-            raise self.error(None, str(exc).strip("'\""), VALUE) from None
+            # (a KeyError's str() adds quotes of its own: take its argument as written)
+            text = str(exc.args[0]) if isinstance(exc, KeyError) and exc.args else str(exc)
+            raise self.error(None, text, VALUE) from None
         except (ValueError, ZeroDivisionError, OverflowError, ArithmeticError) as exc:
             raise self.error(None, str(exc), NUM) from None
 
@@ -344,8 +411,22 @@ class _Call:
         parts = []
         for p, v in zip(self.params, values):
             if p.kind == "number" and v is not None:
-                parts.append(f"{p.name}={show_value(float(v))}")
+                try:
+                    parts.append(f"{p.name}={show_value(float(v))}")
+                except (TypeError, ValueError):     # (a text TUBE_IN reads itself)
+                    parts.append(f"{p.name}={show_value(v)}")
         return ", ".join(parts)
+
+
+def _cell_error(function: str, param: Param, raw: CellError) -> TubeInputError:
+    """The error an error-valued argument propagates; an unknown code is refused."""
+    code = str(raw.code).strip().upper()
+    if code not in _ERROR_CODES:
+        return TubeInputError(f"{function}: {param.name} holds {show_value(raw.code)}, which is "
+                              f"not an error value", VALUE, function=function,
+                              argument=param.name)
+    return TubeInputError(raw.message or f"{function}: {param.name} is {code}", code,
+                          function=function, argument=param.name)
 
 
 def _check_mask(check, operands):
@@ -385,10 +466,15 @@ def _element(value, idx):
 
 def _as_grid(raw) -> np.ndarray | str:
     """2-D array (float or object) from an Excel-shaped range, or a message."""
+    if isinstance(raw, np.ma.MaskedArray):
+        if np.ma.getmaskarray(raw).any():
+            return ("range holds masked (missing) elements; fill them or pass the "
+                    "unmasked values")
+        raw = np.asarray(raw.data)
     if isinstance(raw, np.ndarray):
         arr = raw
     else:
-        rows = list(raw)
+        rows = [r.item() if isinstance(r, np.ndarray) and r.ndim == 0 else r for r in raw]
         if rows and all(isinstance(r, (list, tuple, np.ndarray)) for r in rows):
             widths = {len(r) for r in rows}
             if len(widths) != 1:
@@ -402,7 +488,8 @@ def _as_grid(raw) -> np.ndarray | str:
         else:
             arr = np.empty((1, len(rows)), dtype=object)
             for j, item in enumerate(rows):
-                arr[0, j] = item
+                arr[0, j] = item.item() if isinstance(item, np.ndarray) and item.ndim == 0 \
+                    else item
         if arr.size and all(isinstance(x, _NUMBER_TYPES) and not isinstance(x, (bool, np.bool_))
                             for x in arr.flat):
             arr = arr.astype(float)

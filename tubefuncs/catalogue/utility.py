@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .. import __version__
-from ..units import convert
+from ..units import in_unit
 from .spec import Function, Param
 
 
@@ -36,17 +36,18 @@ def version():
 
 FUNCTIONS = [
     Function(
-        name="TUBE_CONVERT", func=convert,
-        params=(Param("value", "The number to convert, in from_unit."),
-                Param("from_unit", "Unit of value, e.g. 'kW', 'dBm', 'GHz', 'uperv'.",
-                      kind="text"),
-                Param("to_unit", "Unit wanted, same dimension, e.g. 'W', 'dBW', 'MHz'.",
-                      kind="text")),
+        name="TUBE_IN", func=in_unit,
+        params=(Param("quantity", "A number in SI, or text with a number and a unit, e.g. "
+                      "'4.5 us', '2 kW', '43 dBm'."),
+                Param("unit", "Unit wanted, e.g. 'ns', 'dBm', 'MHz'; omitted: the SI unit "
+                      "(a plain number quantity is read in the SI unit of this unit's "
+                      "dimension).", kind="text", default=None)),
         result_unit="",
-        help="Converts a value between units of the same dimension; dBm and dBW work for "
-             "power (plain tested conversions, not pint's logarithmic units).",
+        help="A quantity as a number in the unit wanted (omitted: SI), so that text such as "
+             "'4.5 us' can be used in arithmetic; dBm and dBW work for power (plain tested "
+             "conversions). A unit of another dimension is #VALUE! naming both units.",
         references=("BIPM, The International System of Units (SI Brochure), 9th ed., 2019.",),
-        category="Utilities",
+        category="Utilities", extra={"raw_args": ("quantity",)},
     ),
     Function(
         name="TUBE_HELP", func=help,

@@ -35,7 +35,6 @@ __all__ = [
     "TUBE_CN0",
     "TUBE_COLLECTOR_POWER",
     "TUBE_CONFINED_FLOW_FIELD",
-    "TUBE_CONVERT",
     "TUBE_COOLANT_FLOW",
     "TUBE_COUPLING_BETA",
     "TUBE_DEPRESSED_VOLTAGE",
@@ -50,6 +49,7 @@ __all__ = [
     "TUBE_G_OVER_T",
     "TUBE_HARMONIC_CURRENT",
     "TUBE_HELP",
+    "TUBE_IN",
     "TUBE_LARGE_SIGNAL_GAIN",
     "TUBE_LIMITING_CURRENT",
     "TUBE_LOADED_Q",
@@ -774,15 +774,13 @@ def TUBE_SALEH_PHASE(drive, alpha=None, beta=None, unit=None):
 
 
 @xw.func(category="tubefuncs")
-@xw.arg("value", ndim=2, err_to_str=True,
-        doc='The number to convert, in from_unit. Number. A range gives a range.')
-@xw.arg("from_unit", ndim=2, err_to_str=True,
-        doc="Unit of value, e.g. 'kW', 'dBm', 'GHz', 'uperv'.")
-@xw.arg("to_unit", ndim=2, err_to_str=True,
-        doc="Unit wanted, same dimension, e.g. 'W', 'dBW', 'MHz'.")
-def TUBE_CONVERT(value, from_unit, to_unit):
-    "Converts a value between units of the same dimension; dBm and dBW work for power (plain tested conversions, not pint's logarithmic units)."
-    return _call("TUBE_CONVERT", (value, from_unit, to_unit))
+@xw.arg("quantity", ndim=2, err_to_str=True,
+        doc="A number in SI, or text with a number and a unit, e.g. '4.5 us', '2 kW', '43 dBm'. Number. A range gives a range.")
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc="Unit wanted, e.g. 'ns', 'dBm', 'MHz'; omitted: the SI unit (a plain number quantity is read in the SI unit of this unit's dimension). Optional.")
+def TUBE_IN(quantity, unit=None):
+    "A quantity as a number in the unit wanted (omitted: SI), so that text such as '4.5 us' can be used in arithmetic; dBm and dBW work for power (plain tested conversions). A unit of another dimension is #VALUE! naming both units."
+    return _call("TUBE_IN", (quantity, unit))
 
 
 @xw.func(category="tubefuncs")

@@ -242,8 +242,8 @@ class Functions(unohelper.Base, XFunctions, XServiceName, XServiceInfo):
     def TUBE_SALEH_PHASE(self, drive, alpha, beta, unit):
         return self._call("TUBE_SALEH_PHASE", (drive, alpha, beta, unit,))
 
-    def TUBE_CONVERT(self, value, fromUnit, toUnit):
-        return self._call("TUBE_CONVERT", (value, fromUnit, toUnit,))
+    def TUBE_IN(self, quantity, unit):
+        return self._call("TUBE_IN", (quantity, unit,))
 
     def TUBE_HELP(self, functionName):
         return self._call("TUBE_HELP", (functionName,))
