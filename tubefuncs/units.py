@@ -156,7 +156,7 @@ _RATIO_UNITS = frozenset({"percent", "permille", "ppm", "ppb", "ppt", "dimension
 
 def db_level(param_name: str):
     """The dB texts a dB-valued argument accepts (by its name's suffix), or None."""
-    for suffix, texts in DB_LEVELS.items():
+    for suffix in DB_LEVELS:
         if param_name.endswith(suffix):
             return suffix
     return None
@@ -329,7 +329,7 @@ def _make_converter(unit_text: str, result_unit: str):
                             f"converted (power results)")
     try:
         target = ureg.parse_units(unit_text)
-        target.dimensionality
+        _ = target.dimensionality   # (pint raises here for some undefined names)
     except Exception:
         raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None
     if target.dimensionality != _dimensionality(result_unit):
@@ -540,7 +540,7 @@ def _checked_units(unit_text: str):
                             f"are converted, as plain tested functions")
     try:
         q = ureg.parse_units(unit_text)
-        q.dimensionality
+        _ = q.dimensionality   # (pint raises here for some undefined names)
         return q
     except Exception:
         raise UnitTextError(f"unknown unit '{unit_text}' (units are case-sensitive)") from None
