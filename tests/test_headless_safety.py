@@ -693,3 +693,34 @@ def test_deep_nesting_is_refused_per_cell_and_long_chains_compute(tmp_path, caps
     assert "nested 500 levels deep" in text and "nested 65 levels deep" in text
     assert got["A2"] == got["A3"] == got["A5"] == "#NAME?"
     assert got["A4"] == 1 and got["A6"] == 2700
+
+
+# ------------------------------------------------------------------- arrays and texts built by formulas
+
+@pytest.mark.parametrize("engine", ["fast", "general"])
+def test_standard_function_bombs_are_error_values_before_the_work(tmp_path, capsys, engine):
+    cells = {"A1": '=LEN(REPT("qwertyuiop",2.5E8))',                 # 2.5e9 characters
+             "B1": "=SUM(MUNIT(20000))",                              # 4e8 elements
+             "C1": "=SUM(SEQUENCE(20000)+TRANSPOSE(SEQUENCE(20000)))",
+             "D1": '=LEN(SUBSTITUTE(REPT("a",32767),"a",REPT("b",32767)))',
+             "E1": '=LEN(REPT("x",32767)&"y")',                       # one over 32,767
+             "F1": '=LEN(REPT("ab",10))',                             # ordinary use: 20
+             "G1": "=SUM(TUBE_BEAM_POWER(H1:H3000,TRANSPOSE(H1:H3000)))"}
+    cells.update({f"H{r}": r for r in range(1, 3001)})
+    book = make_book(tmp_path / "bombs.xlsx", {"S": cells})
+    t = time.perf_counter()
+    got = _values(capsys, book, tmp_path, engine)
+    assert time.perf_counter() - t < 30
+    text = capsys.readouterr().out
+    assert got["A1"] == got["D1"] == got["E1"] == "#VALUE!"
+    assert got["B1"] == got["C1"] == got["G1"] == "#NUM!"
+    assert got["F1"] == 20
+    assert "over Excel's 32,767" in text and "over the limit of 5,000,000" in text
+
+
+def test_bomb_under_an_address_space_cap(tmp_path):
+    book = make_book(tmp_path / "cap.xlsx", {"S": {"A1": '=LEN(REPT("abcdefghij",2.5E8))',
+                                                   "B1": "=SUM(MUNIT(20000))"}})
+    p, elapsed = run_capped("recalc", book, "-o", tmp_path / "o.xlsx", cap_mib=1000)
+    assert p.returncode == 0, p.stderr
+    assert elapsed < 20

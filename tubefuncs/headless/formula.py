@@ -348,9 +348,9 @@ class _Compiler:
                 return lambda env, slots: env.read_reference(ref(env, slots))
             if node[2][0] == "bin" and node[2][1] not in _REF_OPS:
                 return self.chain(node)
-            fn = OPERATORS[op]
+            fn = bounded_operator(op)
             a, b = self.value(node[2]), self.value(node[3])
-            return lambda env, slots: V.scalar(fn(a(env, slots), b(env, slots)))
+            return lambda env, slots: V.scalar(fn(env, a(env, slots), b(env, slots)))
         if kind == "call":
             if _is_index_of_reference(node):
                 ref = self.index_reference(node)
@@ -364,7 +364,7 @@ class _Compiler:
         limit compiles and runs without Python's recursion limit)."""
         steps = []
         while node[0] == "bin" and node[1] not in _REF_OPS:
-            steps.append((OPERATORS[node[1]], node[3]))
+            steps.append((bounded_operator(node[1]), node[3]))
             node = node[2]
         first = self.value(node)
         steps = [(fn, self.value(right)) for fn, right in reversed(steps)]
@@ -372,7 +372,7 @@ class _Compiler:
         def run(env, slots):
             acc = first(env, slots)
             for fn, right in steps:
-                acc = V.scalar(fn(acc, right(env, slots)))
+                acc = V.scalar(fn(env, acc, right(env, slots)))
             return acc
         return run
 
@@ -440,10 +440,35 @@ def _is_index_of_reference(node) -> bool:
 
 
 def _guard(env, name, fn, *args):
+    from .bounds import check_call, check_text
+
+    refused = check_call(env, name, args)
+    if refused is not None:
+        return refused
     try:
-        return V.scalar(fn(*args))
+        result = V.scalar(fn(*args))
+    except MemoryError:
+        return env.fail("#NUM!", f"{name}: the result does not fit in memory")
     except Exception as exc:  # formulas raises its own errors for some inputs
         return env.fail("#VALUE!", f"{name}: {type(exc).__name__} in the Excel function library")
+    return check_text(env, name, result)
+
+
+def bounded_operator(op: str):
+    """``fn(env, a, b)``: Excel's operator, refused (an error value with its reason)
+    before it would build an array over the size limit or text over Excel's."""
+    from .bounds import check_operator, check_text
+
+    fn = OPERATORS[op]
+
+    def run(env, a, b):
+        if isinstance(a, np.ndarray) or isinstance(b, np.ndarray) or op == "&":
+            refused = check_operator(env, op, a, b)
+            if refused is not None:
+                return refused
+            return check_text(env, op, fn(a, b))
+        return fn(a, b)
+    return run
 
 
 def combine_references(op, a, b):

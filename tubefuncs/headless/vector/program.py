@@ -101,6 +101,40 @@ _COMPARE = {"=": np.equal, "<>": np.not_equal, "<": np.less, ">": np.greater,
 _BIG = 2.0 ** 52
 
 
+#: Functions whose result size the general engine checks before building it.
+GUARDED_SIZES = frozenset({"REPT", "MUNIT", "MMULT", "CONCAT", "CONCATENATE", "TEXTJOIN",
+                           "SUBSTITUTE"})
+
+
+def _bounded_text_op(fn):
+    """``&`` that hands a text over Excel's limit to the general engine (which
+    gives #VALUE! with its reason)."""
+    from ..limits import MAX_TEXT_LENGTH
+
+    def run(a, b):
+        out = fn(a, b)
+        if isinstance(out, str) and len(out) > MAX_TEXT_LENGTH:
+            raise OverflowError("text over the limit")
+        return out
+    return run
+
+
+def _sized(fn):
+    """An operator that hands arrays broadcasting past the size limit to the general
+    engine (which refuses them with #NUM! and the reason) instead of building them."""
+    from ..limits import DEFAULT_LIMITS
+
+    limit = DEFAULT_LIMITS.max_array_cells
+
+    def run(a, b):
+        if isinstance(a, np.ndarray) or isinstance(b, np.ndarray):
+            sa, sb = V.as_array(a).shape, V.as_array(b).shape
+            if max(sa[0], sb[0]) * max(sa[1], sb[1]) > limit:
+                raise OverflowError("array over the size limit")
+        return fn(a, b)
+    return run
+
+
 def _numeric(v: Vec) -> bool:
     return v.kind in ("n", "b")
 
@@ -144,7 +178,7 @@ class Compiler:
                 return self.arith(op, a, b)
             if op in _COMPARE:
                 return self.compare(op, a, b)
-            fn = OPERATORS[op]
+            fn = _sized(_bounded_text_op(OPERATORS[op]) if op == "&" else OPERATORS[op])
             return lambda ctx: self.fold(fn, [a(ctx), b(ctx)], ctx.n, general)
         if kind == "call":
             return self.call(node[1], node[2])
@@ -193,7 +227,7 @@ class Compiler:
         return run
 
     def arith(self, op, x, y):
-        fn = OPERATORS[op]
+        fn = _sized(OPERATORS[op])
         ufunc = _ARITH[op]
 
         def run(ctx):
@@ -210,7 +244,7 @@ class Compiler:
         return run
 
     def compare(self, op, x, y):
-        fn = OPERATORS[op]
+        fn = _sized(OPERATORS[op])
         ufunc = _COMPARE[op]
 
         def run(ctx):
@@ -239,6 +273,8 @@ class Compiler:
         if res.kind == "catalogue":
             return self.catalogue(res.target, args)
         name, fn = res.name, res.target
+        if name in GUARDED_SIZES:   # (bounded in the general engine, cell by cell)
+            raise NotVectorisable(f"{name}: its result size is checked cell by cell")
         trusted = _trusted().get(name) is fn
         if trusted:
             special = self.special(name, fn, args)
