@@ -266,6 +266,11 @@ def main(argv=None) -> int:
     return 0
 
 
+def run() -> int:
+    """Entry for ``run_all.py``: the default figures."""
+    return main([])
+
+
 class _NoCalc:
     exe = None
     reason = ""
