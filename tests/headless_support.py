@@ -89,7 +89,7 @@ def inject_cached(path, sheet_index: int, cached: dict, out=None):
             kind, text = "b", "1" if value else "0"
         elif isinstance(value, (int, float)):
             kind, text = "n", repr(float(value))
-        elif isinstance(value, str) and value.startswith("#"):
+        elif isinstance(value, str) and value.startswith("#") and " " not in value:
             kind, text = "e", value
         else:
             kind, text = "str", value

@@ -107,11 +107,15 @@ def test_check_without_any_expected_values_is_unusable(book, capsys):
 def test_check_reports_every_name_error(tmp_path, capsys):
     path = make_book(tmp_path / "n.xlsx", {"S": {"A1": "=FOO(1)", "A2": "=IFERROR(BAR(1),0)",
                                                  "A3": "=undefined_name"}})
-    run(capsys, "snapshot", path)
+    code, _, err = run(capsys, "snapshot", path)
+    assert code == 0 and err.count("warning: wrote #NAME?") == 2   # A2 shows 0, not #NAME?
     code, out, _ = run(capsys, "check", path)
-    assert code == 0                                 # #NAME? matches #NAME? ...
-    assert "#NAME? met in 3 place(s)" in out          # ... but each one is reported
+    assert code == 1                                 # #NAME? matching #NAME? still fails
+    assert "#NAME? met in 3 place(s)" in out and "FAILED: #NAME? in 3 place(s)" in out
     assert "FOO" in out and "BAR" in out and "undefined_name" in out
+    code, out, _ = run(capsys, "check", path, "--accept-name", "foo", "--accept-name", "S!A2",
+                       "--accept-name", "undefined_name")
+    assert code == 0 and "3 #NAME? accepted" in out
 
 
 def test_bad_expected_file_is_unusable(tmp_path, book, capsys):

@@ -500,7 +500,9 @@ def test_command_line_engine_option(tmp_path, mixed, capsys):
     assert general.keys() == fast.keys()
     assert all(_same(general[k], fast[k]) for k in general)
     assert cli.main(["check", str(mixed), "--expected", str(tmp_path / "fast.tsv"),
-                     "--engine", "general"]) == 0
+                     "--engine", "general"]) == 1          # the book's #NAME? cells fail ...
+    assert cli.main(["check", str(mixed), "--expected", str(tmp_path / "fast.tsv"),
+                     "--engine", "general", "--accept-name", "NOSUCH"]) == 0   # ... unless accepted
     capsys.readouterr()
     with pytest.raises(SystemExit):
         cli.main(["recalc", str(mixed), "-o", str(tmp_path / "x.xlsx"), "--engine", "turbo"])
@@ -526,9 +528,11 @@ def test_pytest_plugin_engine_setting(pytester, plain, monkeypatch):
     real = headless.recalculate
     monkeypatch.setattr(headless, "recalculate",
                         lambda *a, **k: engines.append(k.get("engine")) or real(*a, **k))
-    pytester.makeini("[pytest]\ntubefuncs_workbooks = books/*.xlsx\ntubefuncs_engine = general\n")
+    accept = "tubefuncs_accept_names = NOSUCH\n"        # the book's #NAME? cells, on purpose
+    pytester.makeini("[pytest]\ntubefuncs_workbooks = books/*.xlsx\ntubefuncs_engine = general\n"
+                     + accept)
     pytester.runpytest(*args).assert_outcomes(passed=2)          # sheets Sweep and Report
-    pytester.makeini("[pytest]\ntubefuncs_workbooks = books/*.xlsx\n")
+    pytester.makeini("[pytest]\ntubefuncs_workbooks = books/*.xlsx\n" + accept)
     pytester.runpytest(*args).assert_outcomes(passed=2)
     assert engines == ["general", "fast"]
     pytester.makeini("[pytest]\ntubefuncs_workbooks = books/*.xlsx\ntubefuncs_engine = turbo\n")

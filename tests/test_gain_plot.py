@@ -80,6 +80,10 @@ def test_plot_from_workbook_range(tmp_path, capsys):
     out = tmp_path / "fig" / "gain.png"
     rc = gain_plot.main([str(book), "Tube!$B$4:$G$9", *BEAM_OPTS, "--points", "301",
                          "-o", str(out)])
+    assert rc == 2 and not out.parent.exists()      # a missing folder is refused, as in recalc
+    out.parent.mkdir()
+    rc = gain_plot.main([str(book), "Tube!$B$4:$G$9", *BEAM_OPTS, "--points", "301",
+                         "-o", str(out)])
     assert rc == 0
     assert out.read_bytes()[:8] == PNG_MAGIC
     import matplotlib.image

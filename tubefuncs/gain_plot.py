@@ -33,7 +33,7 @@ from .physics import gain
 
 EXIT_OK, EXIT_UNUSABLE = 0, 2
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
-DEFAULT_POINTS = 801
+DEFAULT_POINTS = 721
 
 
 class PlotInputError(ValueError):
@@ -276,7 +276,6 @@ def draw(f, gain_db, phase_deg, beam: Beam, n_cavities: int, output: Path,
     ax_p.set_title("Phase unwrapped over the sweep; equals TUBE_SMALL_SIGNAL_PHASE at the "
                    "peak", fontsize=8.5, color="0.3")
     fig.tight_layout(rect=(0, 0.03, 1, 1))
-    output.parent.mkdir(parents=True, exist_ok=True)
     fig.savefig(output, dpi=dpi)
     plt.close(fig)
     return {"peak_db": float(gain_db[peak]), "peak_frequency": float(f[peak]),
@@ -325,6 +324,14 @@ def run(args) -> int:
         raise PlotInputError(f"--points must be 10 to 100000 (got {args.points})")
     if not args.drop > 0:
         raise PlotInputError(f"--drop must be > 0 dB (got {args.drop:g})")
+    output = Path(args.output) if args.output else Path(Path(args.table).stem + "_gain.png")
+    from .headless.problems import WorkbookError
+    from .headless.writer import check_output
+
+    try:
+        check_output(output, [args.table])     # the same refusals as recalc, before any work
+    except WorkbookError as exc:
+        raise PlotInputError(exc.message) from None
     cavities = read_table(args.table, args.range)
     table_problems = gain.validate_cavities(cavities)
     if table_problems:
@@ -342,7 +349,6 @@ def run(args) -> int:
                              or "outside the small-signal model"))
     for problem in problems:
         print(f"tubefuncs plot: warning: {problem} (not plotted there)", file=sys.stderr)
-    output = Path(args.output) if args.output else Path(Path(args.table).stem + "_gain.png")
     shown = draw(f, g, ph, beam, len(cavities), output, args.title, args.drop, args.dpi)
     width = shown["f_high"] - shown["f_low"]
     band = f"{width / 1e6:.4g} MHz" if math.isfinite(width) else "wider than the sweep"

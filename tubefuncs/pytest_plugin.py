@@ -12,9 +12,12 @@ snapshot``) when there is one, else the values a spreadsheet application cached
 in the file.  A failure shows the table of differences; a workbook that cannot
 be used fails with its one-line reason.
 
-Optional settings: ``tubefuncs_rtol``, ``tubefuncs_atol`` (tolerances),
+Optional settings: ``tubefuncs_rtol``, ``tubefuncs_atol`` (tolerances, >= 0),
 ``tubefuncs_engine`` (``fast``, the default, or ``general``: see
-:func:`tubefuncs.headless.recalculate`).
+:func:`tubefuncs.headless.recalculate`), ``tubefuncs_accept_names`` (cells such
+as ``Budget!B7``, functions or defined names whose ``#NAME?`` is accepted:
+every other ``#NAME?`` fails its sheet's test, even when the snapshot holds
+``#NAME?`` too).
 Matching workbooks are collected when pytest runs without explicit paths, and
 whenever a collected folder contains them (``pytest workbooks/``).
 
@@ -39,6 +42,8 @@ def pytest_addoption(parser):
     parser.addini("tubefuncs_atol", default="", help="absolute tolerance for workbook numbers")
     parser.addini("tubefuncs_engine", default="fast",
                   help="headless engine: fast (same-shape cells as vectors) or general")
+    parser.addini("tubefuncs_accept_names", type="args", default=[],
+                  help="cells (Sheet!B7), functions or defined names whose #NAME? is accepted")
 
 
 def _patterns(config) -> list:
@@ -111,19 +116,37 @@ class WorkbookFile(pytest.File):
             from tubefuncs.headless.run import ENGINES
 
             ini = self.config.getini
-            rtol = float(ini("tubefuncs_rtol") or DEFAULT_RTOL)
-            atol = float(ini("tubefuncs_atol") or DEFAULT_ATOL)
             engine = (ini("tubefuncs_engine") or "fast").strip()
             snap = snapshot_path(self.path)
             try:
+                rtol = _tolerance(ini, "tubefuncs_rtol", DEFAULT_RTOL)
+                atol = _tolerance(ini, "tubefuncs_atol", DEFAULT_ATOL)
                 if engine not in ENGINES:
                     raise WorkbookError(f"tubefuncs_engine must be one of {', '.join(ENGINES)} "
                                         f"(got {engine!r})")
                 self._outcome = check(self.path, expected=snap if os.path.exists(snap) else None,
-                                      rtol=rtol, atol=atol, engine=engine)
+                                      rtol=rtol, atol=atol, engine=engine,
+                                      accept_names=list(ini("tubefuncs_accept_names") or []))
             except WorkbookError as exc:
                 self._outcome = exc
         return self._outcome
+
+
+def _tolerance(ini, name: str, default: float) -> float:
+    import math
+
+    from tubefuncs.headless.problems import WorkbookError
+
+    text = (ini(name) or "").strip()
+    if not text:
+        return default
+    try:
+        value = float(text)
+    except ValueError:
+        value = math.nan
+    if not (math.isfinite(value) and value >= 0):
+        raise WorkbookError(f"{name} must be a finite number >= 0 (got {text!r})")
+    return value
 
 
 class WorkbookFailure(Exception):
@@ -149,13 +172,16 @@ class WorkbookItem(pytest.Item):
         recalc, comparison, source = outcome
         mine = comparison.for_sheet(self.sheet_index)
         lines = []
-        if mine.name_errors:
-            lines.append(f"#NAME? met in {len(mine.name_errors)} place(s):")
-            lines += [f"  {cell}: {message}" for cell, message, _ in mine.name_errors]
         if mine.differences:
-            lines.insert(0, f"{len(mine.differences)} cell(s) of sheet {self.name!r} differ "
-                            f"from {source}:")
-            lines.append(format_table(mine.differences, limit=100))
+            lines.append(f"{len(mine.differences)} cell(s) of sheet {self.name!r} differ "
+                         f"from {source}:")
+            lines.append(format_table(mine.differences, limit=100,
+                                      show_all="'tubefuncs check --max-rows 0' lists them all"))
+        if mine.name_errors:
+            lines.append(f"#NAME? in {len(mine.name_errors)} place(s) of sheet {self.name!r} "
+                         f"(accept one with tubefuncs_accept_names):")
+            lines += [f"  {cell}: {message}" for cell, message, _ in mine.name_errors]
+        if lines:
             raise WorkbookFailure("\n".join(lines))
 
     def repr_failure(self, excinfo):

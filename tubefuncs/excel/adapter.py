@@ -11,8 +11,13 @@ with ``ndim=2`` and ``err_to_str=True``; xlwings therefore passes
 :func:`call` turns those into the arguments of
 :func:`tubefuncs.worksheet.evaluate`, and its result into what a classic
 xlwings cell can show: a float, a text, or a list of row lists of floats and
-texts.  Classic xlwings cannot return Excel error values (NaN becomes an empty
-text, an exception's text lands in the cell), so an error is a short text that
+texts.  Classic xlwings cannot return Excel error values with their code: it
+passes unknown objects through to pywin32 (``prepare_xl_data_element``), and
+pywin32 turns a ``win32com.client.VARIANT(VT_ERROR, code)`` into an error
+variant, per element of a list too, but drops the code and always sends
+``DISP_E_PARAMNOTFOUND`` (``MakeObjToVariant`` in pywin32's ``oleargs.cpp``);
+NaN becomes an empty text, an exception's text lands in the cell.  So an error
+is a short text that
 starts with the error value and names the function and the argument, e.g.
 ``#NUM! TUBE_PILLBOX_FREQ: radius must be > 0 m (got 0)``: never a traceback,
 never more than 255 characters.

@@ -1,6 +1,6 @@
 """The starter workbook written by ``tubefuncs excel-setup``.
 
-An invented scenario (bench 4 of the fictional "Quillmoor RF Lab": a pulsed
+An invented scenario (bench 4 of the fictional "Ulqathor RF lab": a pulsed
 S-band klystron amplifier driving a water load) worked through with catalogue
 functions, a column sweep as an array formula, one error shown on purpose, a
 sheet listing every catalogue function, and an ``xlwings.conf`` sheet naming
@@ -28,7 +28,7 @@ STARTER_SHEET = "Bench 4"
 FUNCTIONS_SHEET = "Functions"
 CONFIG_SHEET = "xlwings.conf"   # the sheet name the xlwings add-in looks for
 
-TITLE = "Quillmoor RF Lab, bench 4: pulsed S-band klystron on a water load (invented example)"
+TITLE = "Ulqathor RF lab, bench 4: pulsed S-band klystron on a water load (invented example)"
 SCENARIO = ("All figures are illustrative inputs of an invented test stand, not data of any real "
             "tube or facility. Change the yellow cells; the formulas use tubefuncs worksheet "
             "functions (=TUBE_...) and ordinary Excel.")
@@ -125,14 +125,18 @@ RESULTS = (
            {"radius": "cavity_radius", "length": "cavity_length", "voltage": "voltage"}, "ohm"),
     Result("rf_average", "RF output, average", "TUBE_AVERAGE_POWER",
            {"peak_power": "rf_output", "pulse_width": "pulse_width", "prf": "prf"}, "kW"),
-    Result("collector_peak", "Collector power during the pulse", "TUBE_COLLECTOR_POWER",
+    Result("collector_peak", "Collector power during the pulse, driven", "TUBE_COLLECTOR_POWER",
            {"beam_power": "beam_power", "rf_output": "rf_output"}, None, MEGA,
-           "in W, shown in MW; spent beam without RF drive is the worse case"),
-    Result("collector_average", "Collector power, average", "TUBE_AVERAGE_POWER",
-           {"peak_power": "collector_peak", "pulse_width": "pulse_width", "prf": "prf"},
+           "in W, shown in MW"),
+    Result("collector_undriven", "Collector power during the pulse, no RF drive",
+           "TUBE_COLLECTOR_POWER", {"beam_power": "beam_power", "rf_output": Literal(0)},
+           None, MEGA, "in W, shown in MW; the whole beam lands on the collector: the worst case"),
+    Result("collector_average", "Collector power, average, no RF drive", "TUBE_AVERAGE_POWER",
+           {"peak_power": "collector_undriven", "pulse_width": "pulse_width", "prf": "prf"},
            None, KILO, "in W, shown in kW"),
-    Result("coolant", "Collector cooling water flow", "TUBE_COOLANT_FLOW",
-           {"power": "collector_average", "temperature_rise": "temperature_rise"}, "L/min"),
+    Result("coolant", "Collector cooling water flow (sized for no drive)", "TUBE_COOLANT_FLOW",
+           {"power": "collector_average", "temperature_rise": "temperature_rise"}, "L/min",
+           None, "the undriven case: the collector must survive loss of drive"),
     Result("cutoff", "Waveguide TE10 cutoff", "TUBE_WAVEGUIDE_CUTOFF",
            {"width": "wg_width"}, "GHz"),
     Result("wg_loss", "Waveguide loss to the load, dB", "TUBE_WAVEGUIDE_LOSS",

@@ -5,7 +5,7 @@ GENERATED FILE: do not edit.  Regenerate after any catalogue change with
     python -m tubefuncs.excel.generate
 
 then click Import Functions on Excel's xlwings tab (see addin/README.md).
-45 functions, generated from tubefuncs.catalogue.  This is the only module
+55 functions, generated from tubefuncs.catalogue.  This is the only module
 of tubefuncs that imports xlwings.  Every argument is declared ndim=2 (a cell
 arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
@@ -34,6 +34,7 @@ __all__ = [
     "TUBE_COOLANT_FLOW",
     "TUBE_COUPLING_BETA",
     "TUBE_DISH_GAIN",
+    "TUBE_EFFICIENCY",
     "TUBE_EIRP",
     "TUBE_FSPL",
     "TUBE_GAMMA",
@@ -42,8 +43,12 @@ __all__ = [
     "TUBE_G_OVER_T",
     "TUBE_HARMONIC_CURRENT",
     "TUBE_HELP",
+    "TUBE_LARGE_SIGNAL_GAIN",
     "TUBE_LOADED_Q",
     "TUBE_OPTIMUM_DRIFT",
+    "TUBE_OUTPUT_GAP_VOLTAGE",
+    "TUBE_OUTPUT_PHASE",
+    "TUBE_OUTPUT_POWER",
     "TUBE_PERVEANCE",
     "TUBE_PILLBOX_FREQ",
     "TUBE_PILLBOX_Q",
@@ -54,10 +59,15 @@ __all__ = [
     "TUBE_REDUCTION_FACTOR",
     "TUBE_SALEH_AMPLITUDE",
     "TUBE_SALEH_PHASE",
+    "TUBE_SATURATED_EFFICIENCY",
+    "TUBE_SATURATED_POWER",
+    "TUBE_SATURATION_DRIVE",
     "TUBE_SKIN_DEPTH",
     "TUBE_SMALL_SIGNAL_BANDWIDTH",
     "TUBE_SMALL_SIGNAL_GAIN",
     "TUBE_SMALL_SIGNAL_PHASE",
+    "TUBE_SPENT_BEAM_MAX_ENERGY",
+    "TUBE_SPENT_BEAM_MIN_ENERGY",
     "TUBE_SURFACE_RESISTANCE",
     "TUBE_TRANSIT_ANGLE",
     "TUBE_VELOCITY",
@@ -657,3 +667,211 @@ def TUBE_HELP(function_name):
 def TUBE_VERSION():
     'Version of the tubefuncs library that computes this workbook.'
     return _call("TUBE_VERSION", ())
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default W). Optional. E.g. "MW", "kW", "dBm".')
+def TUBE_OUTPUT_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+    'RF output power of a multi-cavity klystron at the given drive power: large-signal relativistic disk model, same beam arguments and cavity table as TUBE_SMALL_SIGNAL_GAIN. Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_OUTPUT_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+def TUBE_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+    'Overall efficiency of a multi-cavity klystron at the given drive: RF power to the load over beam power V0 I0 (large-signal disk model). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+def TUBE_LARGE_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+    'Gain in dB, output power over drive power, at the given drive (large-signal disk model); the small-signal gain at low drive, compressed near saturation. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_LARGE_SIGNAL_GAIN", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default deg). Optional. E.g. "deg", "rad".')
+def TUBE_OUTPUT_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+    'Phase of the output-gap voltage relative to the drive at the given drive, degrees (-180, 180] (large-signal disk model); its change with drive is the AM/PM conversion. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_OUTPUT_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default V). Optional. E.g. "kV", "MV".')
+def TUBE_OUTPUT_GAP_VOLTAGE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+    'Peak RF voltage across the output gap at the given drive (large-signal disk model): what the output cavity and window must hold off. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_OUTPUT_GAP_VOLTAGE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default eV). Optional. E.g. "keV", "MeV".')
+def TUBE_SPENT_BEAM_MIN_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+    'Kinetic energy of the slowest electrons leaving the output gap at the given drive (large-signal disk model); limits collector depression. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_SPENT_BEAM_MIN_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("drive_power", ndim=2, err_to_str=True,
+        doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default eV). Optional. E.g. "keV", "MeV".')
+def TUBE_SPENT_BEAM_MAX_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+    "Kinetic energy of the fastest electrons leaving the output gap at the given drive (large-signal disk model): sets the collector's X-ray shielding. Caution: design estimate, not a rating (see TUBE_HELP / docs)."
+    return _call("TUBE_SPENT_BEAM_MAX_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default W). Optional. E.g. "MW", "kW", "dBm".')
+def TUBE_SATURATED_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
+    'Saturated RF output power of a multi-cavity klystron: the first maximum of the transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_SATURATED_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default W). Optional. E.g. "W", "kW", "dBm".')
+def TUBE_SATURATION_DRIVE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
+    'Drive power (available from a matched generator) that saturates a multi-cavity klystron: the drive of the first maximum of the transfer curve. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_SATURATION_DRIVE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+def TUBE_SATURATED_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+    'Efficiency at saturation of a multi-cavity klystron: saturated output power over beam power V0 I0 (large-signal disk model). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities))

@@ -31,10 +31,13 @@ __all__ = [
 
 
 def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
-          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast"):
+          limits: Limits = DEFAULT_LIMITS, progress=None, fallback=None, engine: str = "fast",
+          accept_names=()):
     """Recalculate ``path`` and compare: ``(Recalculation, Comparison, source)``.
 
     ``engine``: as for :func:`recalculate` (``"fast"`` or ``"general"``).
+    ``accept_names``: cells (``Budget!B7``, ``B7``), functions or defined names
+    whose ``#NAME?`` does not fail the comparison (every other one does).
 
     ``expected``: an expected-values file.  Without it, the values a
     spreadsheet application cached in the workbook; when it has none, the
@@ -43,7 +46,13 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     """
     import os
 
+    from .compare import check_tolerances
     from .limits import regular_file
+
+    try:
+        check_tolerances(rtol, atol)
+    except ValueError as exc:
+        raise WorkbookError(str(exc)) from None
 
     if expected is not None:   # (a FIFO or device is refused before any work)
         if not os.path.lexists(expected):
@@ -64,4 +73,5 @@ def check(path, expected=None, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT
     else:
         wanted = recalc.cached_values()
         source = "values cached in the workbook"
-    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol), source
+    return recalc, compare(recalc, wanted, rtol=rtol, atol=atol,
+                           accept_names=accept_names), source

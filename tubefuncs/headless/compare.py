@@ -4,11 +4,22 @@ Numbers match when ``|got - expected| <= atol + rtol * |expected|``.  Text,
 booleans and error values match exactly (error values are values: ``#NUM!``
 expected and ``#NUM!`` computed is a match).  A blank expected value (a cell
 the application left empty) matches an empty text.
+
+A ``#NAME?`` computed anywhere fails the comparison even when the expected
+value is ``#NAME?`` too (a snapshot taken of a misspelt function must not
+vouch for it), unless its cell, its function or its defined name is
+accepted (``accept_names``: ``Budget!B7``, ``B7``, ``INDIRECT``, ``Rate``).
+
+The text an Excel front end of ours leaves in a cell for an error
+(``#NUM! TUBE_...: message``, as classic xlwings functions cannot return an
+error value) is that error value: a workbook saved by Excel with one of our
+errors cached in it matches the headless engine's real error value.
 """
 
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 
 from . import values as V
@@ -31,16 +42,61 @@ class Difference:
 class Comparison:
     differences: list = field(default_factory=list)
     compared: int = 0
-    name_errors: list = field(default_factory=list)     # [(cell, message)]
+    name_errors: list = field(default_factory=list)     # [(cell, message, sheet index)]
+    accepted_names: list = field(default_factory=list)  # the same, accepted by the caller
 
     @property
     def ok(self) -> bool:
-        return not self.differences
+        return not self.differences and not self.name_errors
 
     def for_sheet(self, sheet_index: int) -> Comparison:
         return Comparison([d for d in self.differences if d.key and d.key[0] == sheet_index],
                           self.compared,
-                          [n for n in self.name_errors if n[2] == sheet_index])
+                          [n for n in self.name_errors if n[2] == sheet_index],
+                          [n for n in self.accepted_names if n[2] == sheet_index])
+
+
+#: Our Excel front end's text for an error: "#NUM! TUBE_NAME: message".
+_FRONT_END_ERROR = re.compile(r"^(#[A-Z0-9/]+[!?A]?) (TUBE_[A-Z0-9_]+\b.*)$", re.DOTALL)
+
+
+def front_end_error(value):
+    """The error value that a cached text of our Excel front end stands for
+    (``"#NUM! TUBE_X: ..."`` -> ``#NUM!``), else None."""
+    if not isinstance(value, str) or not value.startswith("#"):
+        return None
+    m = _FRONT_END_ERROR.match(value)
+    if m is None or m.group(1).upper() not in V.ERRORS:
+        return None
+    return V.error(m.group(1))
+
+
+_SUBJECT = (re.compile(r"^([A-Za-z0-9_.\\]+) is (?:an Excel function|not a tubefuncs function)"),
+            re.compile(r"^unknown function ([A-Za-z0-9_.\\]+)"),
+            re.compile(r"^undefined name ([A-Za-z0-9_.\\?]+)"),
+            re.compile(r"^name ([A-Za-z0-9_.\\?]+) refers to itself"))
+
+
+def name_error_subject(message: str) -> str:
+    """The function or defined name a #NAME? message is about ('' if none)."""
+    for pattern in _SUBJECT:
+        m = pattern.match(message)
+        if m:
+            return m.group(1).upper()
+    return ""
+
+
+def _accepted(cell: str, message: str, accept) -> bool:
+    if not accept:
+        return False
+    subject = name_error_subject(message)
+    bare_cell = cell.rpartition("!")[2].replace("$", "").upper()
+    for item in accept:
+        want = item.strip().replace("$", "").upper()
+        if want and (want == cell.replace("$", "").upper() or want == bare_cell
+                     or want == subject):
+            return True
+    return False
 
 
 def _same(expected, got, rtol: float, atol: float) -> tuple[bool, str]:
@@ -60,8 +116,10 @@ def _same(expected, got, rtol: float, atol: float) -> tuple[bool, str]:
 
 
 def compare(recalc, expected: dict, rtol: float = DEFAULT_RTOL, atol: float = DEFAULT_ATOL,
-            missing_is_difference: bool = True) -> Comparison:
-    """Differences between ``recalc.values`` and ``expected`` (same keys)."""
+            missing_is_difference: bool = True, accept_names=()) -> Comparison:
+    """Differences between ``recalc.values`` and ``expected`` (same keys), and
+    the ``#NAME?`` places not in ``accept_names``."""
+    check_tolerances(rtol, atol)
     result = Comparison()
     for key in sorted(set(recalc.values) | set(expected)):
         cell = recalc.cell_name(key)
@@ -77,15 +135,30 @@ def compare(recalc, expected: dict, rtol: float = DEFAULT_RTOL, atol: float = DE
                                                      "no expected value for this cell", key))
             continue
         result.compared += 1
-        same, rel = _same(expected[key], got, rtol, atol)
+        wanted = expected[key]
+        as_error = front_end_error(wanted)
+        if as_error is not None:
+            wanted = as_error
+        same, rel = _same(wanted, got, rtol, atol)
         if not same:
             result.differences.append(Difference(cell, V.display(expected[key]), V.display(got),
                                                  rel, message, key))
-    result.name_errors = [(recalc.cell_name(k), m, k[0]) for k, m in recalc.name_errors]
+    for k, m in recalc.name_errors:
+        cell = recalc.cell_name(k)
+        target = result.accepted_names if _accepted(cell, m, accept_names) else result.name_errors
+        target.append((cell, m, k[0]))
     return result
 
 
-def format_table(differences, limit: int | None = 50) -> str:
+def check_tolerances(rtol, atol) -> None:
+    """Refuse a negative or non-finite tolerance (ValueError naming it)."""
+    for name, value in (("rtol", rtol), ("atol", atol)):
+        if not (isinstance(value, (int, float)) and math.isfinite(value) and value >= 0):
+            raise ValueError(f"{name} must be a finite number >= 0 (got {value!r})")
+
+
+def format_table(differences, limit: int | None = 50,
+                 show_all: str = "--max-rows 0 shows them all") -> str:
     """A fixed-width table: cell, expected, got, relative difference, message."""
     rows = [("cell", "expected", "got", "rel. diff", "message")]
     shown = differences if limit is None else differences[:limit]
@@ -100,5 +173,5 @@ def format_table(differences, limit: int | None = 50) -> str:
         if n == 0:
             lines.append("  ".join("-" * w for w in widths) + "  -------")
     if limit is not None and len(differences) > limit:
-        lines.append(f"... and {len(differences) - limit} more")
+        lines.append(f"... and {len(differences) - limit} more ({show_all})")
     return "\n".join(lines)

@@ -138,7 +138,8 @@ class Plan:
         if sheet_name is not None and area is not None:
             operand = self._operand(definition, home, depth + 1)
         else:
-            compiled, texts = compile_formula("=" + definition)
+            # A name's expression is evaluated once, as an array (not per calling cell)
+            compiled, texts = compile_formula("=" + definition, array=True)
             slots = [self._operand(t, home, depth + 1) for t in texts]
             operand = NameOperand(name, compiled, slots)
         self._names[key] = operand
@@ -163,7 +164,7 @@ class Plan:
         for anchor, cell, block in pending:
             if anchor not in graph.owner or graph.owner[anchor] != anchor:
                 continue  # inside another array formula's block
-            compiled, texts = compile_formula(cell.text)
+            compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
             slots = [self._operand(t, anchor[0]) for t in texts]
             self.cells[anchor] = (compiled, slots, block)
             self._note_names(anchor, compiled, slots)

@@ -27,6 +27,7 @@ from openpyxl.formula.tokenizer import Token, Tokenizer, TokenizerError
 
 from . import values as V
 from .functions import reference_function, resolve
+from .intersection import annotate, index_reference, intersect, is_reference_node
 from .references import Area
 
 
@@ -291,6 +292,9 @@ class _Compiler:
         if kind == "ref":
             i = node[1]
             return lambda env, slots: slots[i].value(env)
+        if kind == "isect":       # a reference where a plain formula wants one value
+            ref = self.reference(node[1])
+            return lambda env, slots: intersect(ref(env, slots), env, env.host)
         if kind == "un":
             op = _UNARY[node[1]]
             x = self.value(node[2])
@@ -307,6 +311,9 @@ class _Compiler:
             a, b = self.value(node[2]), self.value(node[3])
             return lambda env, slots: V.scalar(fn(a(env, slots), b(env, slots)))
         if kind == "call":
+            if _is_index_of_reference(node):
+                ref = self.index_reference(node)
+                return lambda env, slots: env.read_reference(ref(env, slots))
             return self.call(node[1], node[2])
         raise FormulaSyntaxError(f"cannot compile {kind}")  # pragma: no cover
 
@@ -320,8 +327,23 @@ class _Compiler:
             op = node[1]
             a, b = self.reference(node[2]), self.reference(node[3])
             return lambda env, slots: combine_references(op, a(env, slots), b(env, slots))
+        if kind == "call" and _is_index_of_reference(node):
+            return self.index_reference(node)
         value = self.value(node)
         return lambda env, slots: value(env, slots)
+
+    def index_reference(self, node):
+        """INDEX of a reference, as a reference (its value form when that fails)."""
+        fallback = self.call(node[1], node[2])
+        area_of = self.reference(node[2][0])
+        numbers = [self.value(a) for a in node[2][1:]]
+
+        def run(env, slots):
+            area = area_of(env, slots)
+            if not isinstance(area, Area):
+                return fallback(env, slots)
+            return index_reference(area, [n(env, slots) for n in numbers])
+        return run
 
     def call(self, written, arg_nodes):
         res = resolve(written)
@@ -347,6 +369,12 @@ class _Compiler:
             a0 = args[0]
             return lambda env, slots: _guard(env, name, fn, a0(env, slots))
         return lambda env, slots: _guard(env, name, fn, *[a(env, slots) for a in args])
+
+
+def _is_index_of_reference(node) -> bool:
+    """``INDEX(reference, row, [column])``: answered in Excel's reference form."""
+    return (resolve(node[1]).name == "INDEX" and len(node[2]) in (2, 3)
+            and is_reference_node(node[2][0]))
 
 
 def _guard(env, name, fn, *args):
@@ -379,11 +407,21 @@ def _failing(problem: str):
     return lambda env, slots: env.fail("#NAME?", problem)
 
 
+def parse_tree(tokens_for_parse: tuple, array: bool = False):
+    """Syntax tree of a formula shape, with the implicit intersections of a
+    plain formula marked (:func:`.intersection.annotate`); raises
+    :class:`FormulaSyntaxError`."""
+    tokens = [Token(v, t, s) for v, t, s in tokens_for_parse]
+    return annotate(_Parser(tokens).parse(), array)
+
+
 @functools.lru_cache(maxsize=20_000)
-def compile_skeleton(key: tuple, tokens_for_parse: tuple) -> Compiled:
+def compile_skeleton(key: tuple, tokens_for_parse: tuple, array: bool = False) -> Compiled:
+    """Compiled closure of a formula shape; ``array``: an array formula (whole
+    ranges everywhere), else a plain one (implicit intersection)."""
     tokens = [Token(v, t, s) for v, t, s in tokens_for_parse]
     try:
-        tree = _Parser(tokens).parse()
+        tree = parse_tree(tokens_for_parse, array)
         comp = _Compiler()
         run = comp.value(tree)
     except (FormulaSyntaxError, KeyError, IndexError, ValueError) as exc:
@@ -394,8 +432,12 @@ def compile_skeleton(key: tuple, tokens_for_parse: tuple) -> Compiled:
                     tuple(comp.functions), skeleton=key)
 
 
-def compile_formula(text: str):
-    """``(Compiled, operand_texts)`` for a formula; never raises."""
+def compile_formula(text: str, array: bool = False):
+    """``(Compiled, operand_texts)`` for a formula; never raises.
+
+    ``array``: the formula is an array formula (``{=...}``, or a dynamic
+    array Excel saved over its spill range): ranges are seen whole.
+    """
     try:
         tokens = tokenize(text)
     except FormulaSyntaxError as exc:
@@ -405,5 +447,5 @@ def compile_formula(text: str):
     # The parser needs real operand texts only to tell slots apart, so the
     # skeleton (slots blanked) is parsed; operand texts are returned per cell.
     compiled = compile_skeleton(key, tuple((v if v != "\x00" else "A1", t or Token.OPERAND,
-                                            s or Token.RANGE) for v, t, s in key))
+                                            s or Token.RANGE) for v, t, s in key), array)
     return compiled, operand_texts(tokens)

@@ -43,7 +43,8 @@ UNSUPPORTED = {
 }
 
 #: Functions whose arguments are references, answered by the engine itself.
-REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "SUBTOTAL", "SINGLE"})
+REFERENCE_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "SUBTOTAL", "SINGLE",
+                                 "COUNTBLANK"})
 
 
 def _is_text(v) -> bool:
@@ -282,7 +283,8 @@ def resolve(written: str) -> Resolution:
                           f"{written}: unknown function from another workbook or add-in")
     if bare.startswith("TUBE_"):
         return Resolution("unknown", None, bare,
-                          f"{bare} is not a tubefuncs function (see TUBE_HELP or the docs)")
+                          f"{bare} is not a tubefuncs function{_nearest(bare)} "
+                          f"(see TUBE_HELP or the docs)")
     return Resolution("unknown", None, bare, f"unknown function {bare}")
 
 
@@ -294,6 +296,14 @@ def _in_catalogue(name: str) -> bool:
     return name in CATALOGUE
 
 
+def _nearest(name: str) -> str:
+    """``"; did you mean TUBE_PERVEANCE?"`` for a misspelt catalogue name ('' if none is near)."""
+    import difflib
+
+    close = difflib.get_close_matches(name, sorted(catalogue_names()), n=1, cutoff=0.75)
+    return f"; did you mean {close[0]}?" if close else ""
+
+
 def reference_function(name: str, args: list, host, env=None) -> object:
     """ROW/COLUMN/ROWS/COLUMNS/SUBTOTAL: ``args`` hold areas (or values)."""
     from .references import Area
@@ -302,6 +312,8 @@ def reference_function(name: str, args: list, host, env=None) -> object:
         return subtotal(args, env)
     if name == "SINGLE":
         return implicit_intersection(args, host, env)
+    if name == "COUNTBLANK":
+        return countblank(args, env)
     if len(args) > 1:
         return V.VALUE
     if not args:
@@ -325,25 +337,34 @@ def reference_function(name: str, args: list, host, env=None) -> object:
     return float(shape[0] if name == "ROWS" else shape[1])
 
 
-def implicit_intersection(args: list, host, env):
-    """``@ref`` (saved as ``_xlfn.SINGLE``): the cell of ``ref`` in the formula's
-    row or column; a single value for an array (Excel's implicit intersection)."""
+def countblank(args: list, env):
+    """COUNTBLANK(range): blank cells, and cells holding an empty text.  A whole
+    column or row counts the cells beyond the used part of the sheet too (the
+    engine reads only the used part)."""
     from .references import Area
 
     if len(args) != 1:
         return V.VALUE
     arg = args[0]
-    if isinstance(arg, Area):
-        area = env.clip(arg)
-        if area.is_cell:
-            return env.read(area)
-        if host is not None and env.sheet_index(area.sheet) == host[0]:
-            _, r, c = host
-            if area.c1 == area.c2 and area.r1 <= r <= area.r2:
-                return env.read(Area(area.sheet, r, area.c1, r, area.c1))
-            if area.r1 == area.r2 and area.c1 <= c <= area.c2:
-                return env.read(Area(area.sheet, area.r1, c, area.r1, c))
+    if not isinstance(arg, Area):
+        return arg if V.is_error(arg) else V.VALUE
+    clipped = env.clip(arg)
+    values = V.as_array(env.read(clipped))
+    inside = sum(1 for v in values.flat if v is V.EMPTY or v == "")
+    return float(inside + arg.size - clipped.size)
+
+
+def implicit_intersection(args: list, host, env):
+    """``@ref`` (saved as ``_xlfn.SINGLE``): the cell of ``ref`` in the formula's
+    row or column; a single value for an array (Excel's implicit intersection)."""
+    from .intersection import intersect
+    from .references import Area
+
+    if len(args) != 1:
         return V.VALUE
+    arg = args[0]
+    if isinstance(arg, (Area, list)):
+        return intersect(arg, env, host)
     if isinstance(arg, np.ndarray) and arg.ndim > 0:
         return V.as_array(arg)[0, 0]
     return arg

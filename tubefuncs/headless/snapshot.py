@@ -134,18 +134,47 @@ def read_snapshot(path, book, max_bytes: int | None = None) -> dict:
     except (OSError, UnicodeDecodeError) as exc:
         raise WorkbookError(f"{path}: cannot read expected values ({exc})") from None
     out = {}
+    headed = bool(lines) and lines[0].strip() == HEADER
     for number, line in enumerate(lines, 1):
         if not line.strip() or line.startswith("#"):
             continue
         parts = line.split("\t")
         try:
-            sheet_name, coordinate = split_sheet(unescape_cell(parts[0]))
-            sheet = book.sheet(sheet_name or "")
+            if len(parts) < 2:
+                raise ValueError("no tab between the cell and its value")
+            sheet_name, coordinate = split_sheet(unescape_cell(parts[0].strip()))
+            if sheet_name is None:
+                raise ValueError(f"{_short(parts[0])} is not a Sheet!A1 cell address")
+            sheet = book.sheet(sheet_name)
             if sheet is None:
                 raise ValueError(f"no sheet {sheet_name!r} in the workbook")
-            r, c = coordinate_to_tuple(coordinate)
-            out[(sheet.index, r, c)] = parse_value(parts[1])
+            try:
+                r, c = coordinate_to_tuple(coordinate.replace("$", "").upper())
+            except (ValueError, TypeError):
+                raise ValueError(f"{_short(parts[0])} is not a Sheet!A1 cell address") from None
+            try:
+                out[(sheet.index, r, c)] = parse_value(parts[1])
+            except (ValueError, TypeError) as exc:
+                raise ValueError(f"cannot read the value {_short(parts[1])} ({exc})") from None
         except (ValueError, IndexError, TypeError) as exc:
-            raise WorkbookError(f"{path}, line {number}: not an expected-values line "
-                                f"({exc})") from None
+            hint = "" if headed else (f"; the file does not start with {HEADER!r}: is it an "
+                                      f"expected-values file (see 'tubefuncs snapshot')?")
+            raise WorkbookError(f"{path}, line {number}: not an expected-values line: "
+                                f"{exc}{hint}") from None
+    return out
+
+
+def _short(text: str) -> str:
+    text = repr(text)
+    return text if len(text) <= 40 else text[:37] + "..."
+
+
+def name_warnings(recalc) -> list:
+    """One line for every ``#NAME?`` value a snapshot of ``recalc`` would write."""
+    messages = dict(recalc.name_errors)
+    out = []
+    for key in sorted(recalc.values):
+        if recalc.values[key] is V.NAME:
+            message = messages.get(key) or recalc.messages.get(key) or "#NAME?"
+            out.append(f"{recalc.cell_name(key)}: {message}")
     return out

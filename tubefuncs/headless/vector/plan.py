@@ -40,7 +40,7 @@ import numpy as np
 from .. import values as V
 from ..engine import Plan, Recalculation, recalculate_general
 from ..evaluate import AreaOperand, Env, ErrorOperand
-from ..formula import _Parser, compile_skeleton, skeleton, tokenize
+from ..formula import compile_skeleton, parse_tree, skeleton, tokenize
 from ..gcpause import gc_paused
 from ..graph import Graph
 from ..limits import DEFAULT_LIMITS, Limits
@@ -64,7 +64,8 @@ class _UseGeneral(Exception):
 
 @functools.lru_cache(maxsize=4096)
 def _shape(text: str):
-    """``(Compiled, tree, operand texts)`` of a formula, as the general engine compiles it."""
+    """``(Compiled, tree, operand texts)`` of a plain formula, as the general engine
+    compiles it (groups never hold array formulas)."""
     tokens = tokenize(text)
     key = skeleton(tokens)
     parse_tokens = tuple((v if v != "\x00" else "A1", t or "OPERAND", s or "RANGE")
@@ -72,9 +73,7 @@ def _shape(text: str):
     compiled = compile_skeleton(key, parse_tokens)
     tree = None
     if not compiled.problem:
-        from openpyxl.formula.tokenizer import Token
-
-        tree = _Parser([Token(v, t, s) for v, t, s in parse_tokens]).parse()
+        tree = parse_tree(parse_tokens, False)
     texts = [t.value for t in tokens if t.type == "OPERAND" and t.subtype == "RANGE"]
     return compiled, tree, texts
 
@@ -298,7 +297,7 @@ class FastPlan(Plan):
 
         s, r, c = anchor
         cell = self.book.sheets[s].formulas[(r, c)]
-        compiled, texts = compile_formula(cell.text)
+        compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
         slots = [self._operand(t, s) for t in texts]
         self.cells[anchor] = (compiled, slots, self.blocks.get(anchor))
         self._note_names(anchor, compiled, slots)
@@ -637,6 +636,20 @@ class _SlotReader:
         out = Vec.blank(n)
         for k, r in enumerate(self.rows.tolist()):
             out.put(k, env.read(slot.area_at(r)))
+        return out.tidy()
+
+    def intersected(self, i: int) -> Vec:
+        """Operand ``i`` in a value position: each cell's implicit intersection
+        (:func:`..intersection.intersect`, as the general engine computes it)."""
+        from ..intersection import intersect
+
+        slot = self.group.slots[i]
+        env = self.env
+        s, col = self.group.sheet, self.group.col
+        out = Vec.blank(len(self.rows))
+        for k, r in enumerate(self.rows.tolist()):
+            ref = slot.operand.reference(env) if slot.kind == "uniform" else slot.area_at(r)
+            out.put(k, intersect(ref, env, (s, r, col)))
         return out.tidy()
 
     def rows_of(self, i: int):

@@ -123,6 +123,14 @@ class Compiler:
         if kind == "ref":
             i = node[1]
             return lambda ctx: ctx.slot(i)
+        if kind == "isect":        # implicit intersection (see ..intersection)
+            inner = node[1]
+            if inner[0] != "ref":
+                raise NotVectorisable("intersection of a reference expression")
+            i = inner[1]
+            if self.slot_kinds[i] in ("cell", "uniform-cell"):
+                return lambda ctx: ctx.slot(i)
+            return lambda ctx: ctx.slot.intersected(i)
         if kind == "un":
             return self.unary(node[1], self.compile(node[2]))
         if kind == "post":
@@ -218,6 +226,10 @@ class Compiler:
 
     # ------------------------------------------------------------ calls
     def call(self, written, arg_nodes):
+        from ..formula import _is_index_of_reference
+
+        if _is_index_of_reference(("call", written, arg_nodes)):
+            raise NotVectorisable("INDEX of a reference (a reference result)")
         res = resolve(written)
         if res.kind == "unknown":
             return lambda ctx: Vec.full(V.NAME, ctx.n)
@@ -524,6 +536,11 @@ def _patch(out: Vec, slow, compute) -> Vec:
 
 # ----------------------------------------------------------------------------- catalogue
 
+#: Replaces ``worksheet.evaluate`` for the catalogue call of a group when set
+#: (``tubefuncs recalc --dask``: :func:`tubefuncs.sweeps.recalc.dask_groups`).
+group_evaluator = None
+
+
 def catalogue_vector(name: str, one, vs, kinds, n: int) -> Vec:
     """One worksheet call for the group; element by element where it cannot be one call.
 
@@ -563,7 +580,7 @@ def catalogue_vector(name: str, one, vs, kinds, n: int) -> Vec:
                 col[i, 0] = xs[i]
         args.append(col)
     try:
-        result = worksheet.evaluate(name, args)
+        result = (group_evaluator or worksheet.evaluate)(name, args)
     except TubeInputError:
         return elementwise(one, vs, n, general)
     except Exception:  # a physics module failing on the column: cell by cell
