@@ -12,8 +12,9 @@ Subcommands:
     write BOOK's expected-values file (``BOOK.expected.tsv`` beside it).
 ``demo``
     recalculate the bundled RF-station workbook and print its budget.
-``plot``, ``excel-setup``
-    handed to :mod:`tubefuncs.gain_plot` and :mod:`tubefuncs.excel.setup`.
+``plot``, ``excel-setup``, ``sweep``
+    handed to :mod:`tubefuncs.gain_plot`, :mod:`tubefuncs.excel.setup` and
+    :mod:`tubefuncs.sweeps.cli`.
 
 Exit status: 0 success/match, 1 mismatch, 2 unusable input or usage error,
 3 internal error (set ``TUBEFUNCS_DEBUG=1`` for the traceback).
@@ -101,6 +102,10 @@ def build_parser() -> argparse.ArgumentParser:
                    help="error cells to list, 0 for all (default %(default)d)")
     _limits_options(p)
     _engine_option(p)
+    p.add_argument("--dask", nargs="?", const="local", metavar="ADDRESS",
+                   help="hand the catalogue calls of large filled-down columns to dask "
+                        "(tubefuncs.sweeps; same values): this machine, or the address of "
+                        "a dask.distributed scheduler")
 
     p = sub.add_parser("check", help="recalculate and compare with expected values")
     p.add_argument("book", metavar="BOOK")
@@ -131,8 +136,11 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", default="tubefuncs-demo-out.xlsx", metavar="OUT",
                    help="where to write the recalculated copy (default %(default)s)")
 
-    sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot)", add_help=False)
+    sub.add_parser("plot", help="gain plot (tubefuncs.gain_plot); 'plot transfer' and 'plot "
+                   "applegate': large-signal plots (tubefuncs.largesignal_plot)", add_help=False)
     sub.add_parser("excel-setup", help="set up the Excel add-in (tubefuncs.excel.setup)",
+                   add_help=False)
+    sub.add_parser("sweep", help="grid or tolerance study on dask (tubefuncs.sweeps)",
                    add_help=False)
     return parser
 
@@ -175,7 +183,7 @@ def cmd_recalc(args) -> int:
     from .headless.writer import check_output
 
     check_output(args.output, [args.book])   # (refused before any work)
-    with _progress(os.path.basename(args.book)) as progress:
+    with _progress(os.path.basename(args.book)) as progress, _on_dask(args.dask):
         recalc = recalculate(args.book, limits=_limits(args), progress=progress,
                              engine=args.engine)
         progress.phase("writing")
@@ -186,6 +194,17 @@ def cmd_recalc(args) -> int:
     _say_error_cells(recalc, args.max_rows or None, sys.stdout)
     _say_name_errors(recalc, sys.stdout)
     return EXIT_OK
+
+
+def _on_dask(address):
+    """Context of ``recalc --dask``: large catalogue groups on dask (tubefuncs.sweeps)."""
+    if address is None:
+        import contextlib
+
+        return contextlib.nullcontext()
+    from .sweeps.recalc import dask_groups
+
+    return dask_groups(address)
 
 
 def _count_errors(recalc) -> int:
@@ -261,11 +280,14 @@ def _delegate(module: str, argv) -> int:
 
 COMMANDS = {"recalc": cmd_recalc, "check": cmd_check, "snapshot": cmd_snapshot,
             "demo": cmd_demo}
-DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup"}
+DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup",
+             "sweep": "tubefuncs.sweeps.cli"}
 
 
 def main(argv=None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
+    if argv[:1] == ["plot"] and argv[1:2] and argv[1] in ("transfer", "applegate"):
+        return _delegate("tubefuncs.largesignal_plot", argv[1:])
     if argv and argv[0] in DELEGATED:
         return _delegate(DELEGATED[argv[0]], argv[1:])
     parser = build_parser()

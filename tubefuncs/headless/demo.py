@@ -72,8 +72,12 @@ def summary_lines(recalc) -> list:
         ("Beam current", _num(n("beam_current"), 1, 1), "A"),
         ("Perveance", _num(n("perveance_uperv"), 1, 3), "uA/V^1.5"),
         ("Beam power (peak)", _num(n("beam_power_peak"), 1e6, 2), "MW"),
-        ("RF output, saturated (peak)", _num(n("rf_output_peak"), 1e6, 2), "MW"),
+        ("RF output, saturated (peak)", _num(n("rf_output_peak"), 1e6, 2),
+         "MW (large-signal model of the station tube)"),
+        ("RF drive at saturation", _num(n("rf_drive"), 1, 0), "W"),
         ("Efficiency", _num(n("efficiency"), 0.01, 1), "%"),
+        ("Fastest spent electrons", _num(n("spent_max_kev"), 1, 0),
+         "keV: the collector's X-ray shielding must take them"),
         ("Waveguide run loss", _num(n("run_loss_db"), 1, 2), "dB"),
         ("Power at the structure (peak)", _num(n("structure_power"), 1e6, 2), "MW"),
         ("Average beam power", _num(n("average_beam_power"), 1e3, 2), "kW"),
@@ -94,7 +98,7 @@ def run_demo(output: str, out) -> int:
         book = bundled_station_workbook(tmp)
         recalc = recalculate(book)
         written = write_recalculated(recalc, output)
-    print("Quillmoor test linac (fictional), RF station 3: budget recalculated headless by "
+    print("Ulqathor test linac (fictional), RF station 3: budget recalculated headless by "
           "tubefuncs", file=out)
     print(f"  ({recalc.formula_cells} formula cells; workbook {os.path.basename(book)})",
           file=out)

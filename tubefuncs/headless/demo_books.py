@@ -55,12 +55,69 @@ def _widths(ws, widths) -> None:
 
 # --------------------------------------------------------------------------- station
 
+#: The invented six-cavity S-band klystron of the Ulqathor station (demo data): position
+#: (m), hot resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (None = idle), gap (m).
+TUBE_CAVITIES = (
+    (0.000, 2.998e9, 50, 3000, 150, 0.018),
+    (0.100, 3.051964e9, 50, 3000, None, 0.018),
+    (0.210, 3.051964e9, 50, 3000, None, 0.018),
+    (0.330, 3.051964e9, 50, 3000, None, 0.018),
+    (0.450, 3.081944e9, 50, 3000, None, 0.018),
+    (0.560, 2.998e9, 47.5, 3000, 20, 0.022),
+)
+TUBE_TABLE_ROW = 9
+_TUBE_ARGS = "rf_frequency, beam_voltage, beam_current, beam_radius, tunnel_radius, cavity_table"
+_AT_SAT = _TUBE_ARGS + ", Station!$B$9"
+
+
+def _tube_sheet(wb) -> None:
+    """The station klystron: beam geometry, cavity table, large-signal figures."""
+    tube = wb.create_sheet("Tube")
+    tube["A1"] = "Station 3 klystron (invented six-cavity S-band tube, demo data)"
+    tube["A1"].font = TITLE
+    tube["A2"] = ("Beam voltage, current and frequency come from the Station sheet. The "
+                  "large-signal figures are design estimates of a 1-D disk model, not ratings.")
+    _rows(tube, 4, [
+        ("Beam radius", "6 mm", "", "solid round beam, confined flow"),          # 4
+        ("Tunnel radius", "9.5 mm", ""),                                          # 5
+        None,
+        "Cavities (input first): position (m), hot frequency (Hz), R/Q (ohm, circuit), "
+        "Q0, Qext (empty = idle), gap length (m)",                               # 7
+        ("Position (m)", "Frequency (Hz)", "R/Q (ohm)", "Q0", "Qext", "Gap (m)"),  # 8
+    ])
+    for c in range(1, 7):
+        tube.cell(8, c).font = BOLD
+    for r, row in enumerate(TUBE_CAVITIES, start=TUBE_TABLE_ROW):
+        for c, v in enumerate(row, 1):
+            if v is not None:
+                tube.cell(r, c, v)
+    first = TUBE_TABLE_ROW + len(TUBE_CAVITIES) + 1                               # 16
+    _rows(tube, first, [
+        "Large-signal figures at saturation",                                    # 16
+        ("Saturated efficiency", f"=TUBE_SATURATED_EFFICIENCY({_TUBE_ARGS})", ""),  # 17
+        ("Gain at saturation", f"=TUBE_LARGE_SIGNAL_GAIN({_AT_SAT})", "dB"),       # 18
+        ("Small-signal gain", f"=TUBE_SMALL_SIGNAL_GAIN({_TUBE_ARGS})", "dB"),    # 19
+        ("Output-gap voltage", f'=TUBE_OUTPUT_GAP_VOLTAGE({_AT_SAT}, "kV")', "kV"),  # 20
+        ("Slowest spent electrons", f'=TUBE_SPENT_BEAM_MIN_ENERGY({_AT_SAT}, "keV")',
+         "keV", "limits collector depression"),                                  # 21
+        ("Fastest spent electrons", f'=TUBE_SPENT_BEAM_MAX_ENERGY({_AT_SAT}, "keV")',
+         "keV", "above e*V0: size the collector X-ray shielding for it"),        # 22
+        ("Output power 3 dB below saturation drive",
+         f'=TUBE_OUTPUT_POWER({_TUBE_ARGS}, Station!$B$9/2, "MW")', "MW"),        # 23
+        ("AM/PM: phase change over the last 3 dB",
+         f"=MOD(TUBE_OUTPUT_PHASE({_AT_SAT})-TUBE_OUTPUT_PHASE({_TUBE_ARGS}, "
+         "Station!$B$9/2)+180, 360)-180",
+         "deg"),                                                                 # 24
+    ])
+    _widths(tube, {"A": 40, "B": 16, "C": 10, "D": 10, "E": 10, "F": 10})
+
+
 def station_budget() -> openpyxl.Workbook:
-    """RF station budget of the (fictional) Quillmoor test linac, station 3."""
+    """RF station budget of the (fictional) Ulqathor test linac, station 3."""
     wb = openpyxl.Workbook()
     ws = wb.active
     ws.title = "Station"
-    ws["A1"] = "Quillmoor test linac (fictional) - RF station 3 budget"
+    ws["A1"] = "Ulqathor test linac (fictional) - RF station 3 budget"
     ws["A1"].font = TITLE
     ws["A2"] = ("Pulsed S-band klystron station; every figure is invented for the tubefuncs "
                 "demo. Design estimates, not ratings.")
@@ -69,8 +126,10 @@ def station_budget() -> openpyxl.Workbook:
         ("Beam voltage", 285000, "V", "cathode to anode"),                       # 5
         ("Beam current", 265, "A"),                                               # 6
         ("RF frequency", "2.998 GHz", "", "unit text read by the TUBE_ functions"),  # 7
-        ("RF output, saturated (peak)", 33e6, "W"),                               # 8
-        ("RF drive (peak)", 300, "W"),                                            # 9
+        ("RF output, saturated (peak)", f"=TUBE_SATURATED_POWER({_TUBE_ARGS})", "W",
+         "large-signal model of the tube on the Tube sheet"),                     # 8
+        ("RF drive (peak)", f"=TUBE_SATURATION_DRIVE({_TUBE_ARGS})", "W",
+         "drive that saturates the tube"),                                        # 9
         ("Pulse width", 4.5e-6, "s"),                                             # 10
         ("Pulse repetition rate", 50, "Hz"),                                      # 11
         ("Body interception", 0.02, "", "fraction of average beam power"),        # 12
@@ -136,6 +195,8 @@ def station_budget() -> openpyxl.Workbook:
         wg.cell(4, c).font = BOLD
     _widths(wg, {"A": 30, "B": 12, "C": 12, "D": 12, "E": 18, "F": 12})
 
+    _tube_sheet(wb)
+
     cool = wb.create_sheet("Cooling")
     cool["A1"] = "Collector cooling loop (fictional plant)"
     cool["A1"].font = TITLE
@@ -159,6 +220,10 @@ def station_budget() -> openpyxl.Workbook:
         "collector_no_drive": "Station!$B$36", "coolant_flow_lpm": "Station!$B$38",
         "coolant_available_lpm": "Station!$B$39", "flow_check": "Station!$B$40",
         "coolant_rise_k": "Station!$B$13",
+        "beam_radius": "Tube!$B$4", "tunnel_radius": "Tube!$B$5",
+        "cavity_table": f"Tube!$A${TUBE_TABLE_ROW}:$F${TUBE_TABLE_ROW + len(TUBE_CAVITIES) - 1}",
+        "saturated_efficiency": "Tube!$B$17", "rf_drive": "Station!$B$9",
+        "spent_max_kev": "Tube!$B$22",
     }.items():
         _name(wb, name, ref)
     return wb
@@ -315,14 +380,52 @@ def frequency_sweep(points: int = SWEEP_POINTS) -> openpyxl.Workbook:
     sw.cell(first, 4).value = ArrayFormula(
         ref, f"=TUBE_GAP_COUPLING(A{first}:A{last}, gap_length, v_beam)")
     _widths(sw, {c: 22 for c in "ABCDEFG"})
+    _transfer_sheet(wb)
 
     for name, ref in {
         "f_start": "Setup!$B$4", "f_step": "Setup!$B$5", "v_beam": "Setup!$B$6",
         "beam_i": "Setup!$B$7", "gap_length": "Setup!$B$8", "beam_radius": "Setup!$B$9",
         "tunnel_radius": "Setup!$B$10", "cavity_table": "Cavities!$A$3:$F$6",
+        "transfer_frequency": "Transfer!$B$3",
     }.items():
         _name(wb, name, ref)
     return wb
+
+
+TRANSFER_POINTS = 21
+TRANSFER_FIRST_ROW = 8
+
+
+def _transfer_sheet(wb) -> None:
+    """Transfer curve of the sweep's test klystron: one batch over 21 drive powers."""
+    tr = wb.create_sheet("Transfer")
+    tr["A1"] = ("Transfer curve at 2.998 GHz (large-signal disk model; design estimate, not "
+                "a rating)")
+    tr["A1"].font = TITLE
+    first, last = TRANSFER_FIRST_ROW, TRANSFER_FIRST_ROW + TRANSFER_POINTS - 1
+    args = "transfer_frequency, v_beam, beam_i, beam_radius, tunnel_radius, cavity_table"
+    _rows(tr, 3, [
+        ("Frequency", "2.998 GHz", ""),                                           # 3
+        ("Saturated power", f'=TUBE_SATURATED_POWER({args}, "kW")', "kW"),         # 4
+        ("Saturation drive", f"=TUBE_SATURATION_DRIVE({args})", "W"),              # 5
+        ("Efficiency at saturation", f"=TUBE_SATURATED_EFFICIENCY({args})", ""),   # 6
+    ])
+    heads = ("Drive (W)", "Output power (kW)", "Efficiency", "Gain (dB)",
+             "Output phase (deg)")
+    for c, h in enumerate(heads, 1):
+        tr.cell(first - 1, c, h).font = BOLD
+    for k, r in enumerate(range(first, last + 1)):
+        tr.cell(r, 1, round(0.1 * 10 ** (k / 10), 6))  # 0.1 W to 10 W in 1 dB steps
+    drives = f"A{first}:A{last}"
+    tr.cell(first, 2).value = ArrayFormula(
+        f"B{first}:B{last}", f'=TUBE_OUTPUT_POWER({args}, {drives}, "kW")')
+    tr.cell(first, 3).value = ArrayFormula(
+        f"C{first}:C{last}", f"=TUBE_EFFICIENCY({args}, {drives})")
+    tr.cell(first, 4).value = ArrayFormula(
+        f"D{first}:D{last}", f"=TUBE_LARGE_SIGNAL_GAIN({args}, {drives})")
+    tr.cell(first, 5).value = ArrayFormula(
+        f"E{first}:E{last}", f"=TUBE_OUTPUT_PHASE({args}, {drives})")
+    _widths(tr, {"A": 26, "B": 18, "C": 12, "D": 12, "E": 18})
 
 
 BUILDERS = {

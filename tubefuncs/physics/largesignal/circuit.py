@@ -68,7 +68,12 @@ def load_power(v, r_over_q, qext):
     return 0.5 * np.abs(v) ** 2 * inv / r_over_q
 
 
-def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter):
+def _as_matrix(c):
+    """2x2 real matrix of multiplication by complex c, as (a, b, c, d) arrays."""
+    return [c.real, -c.imag, c.imag, c.real]
+
+
+def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter, admittance=None):
     """Solve V = Z (I_src - I(V)) for every point of a batch.
 
     Parameters
@@ -77,7 +82,7 @@ def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter):
         gap_pass(V) -> (I, state): the induced current for gap voltage V
         (complex, shape (P,)) and the disk state after the gap.
     z_cav : ndarray, complex, shape (P,)
-        Cold impedance. [ohm]
+        Circuit impedance. [ohm]
     source : ndarray, complex, shape (P,)
         Generator current (0 for a cavity without drive). [A]
     v_scale : ndarray, shape (P,)
@@ -86,33 +91,68 @@ def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter):
         Relative tolerance on the residual |V - Z (I_src - I(V))|.
     max_iter : int
         Most gap passes.
+    admittance : ndarray, complex, shape (P,), optional
+        Small-signal beam-loading admittance Y of the gap.
 
     Returns
     -------
     (V, I, state, converged)
+
+    Notes
+    -----
+    The residual r(V) = V - Z (I_src - I(V)) is a map of the plane (real and
+    imaginary part of V); near saturation it is not complex-analytic (it
+    depends on |V|), so a complex secant converges slowly.  Broyden's method
+    in two real dimensions is used instead (C. G. Broyden, Math. Comp. 19,
+    577, 1965, from memory), started from the small-signal Jacobian
+    1 + Z Y: the first step V = Z (I_src - I_free)/(1 + Z Y) is exact in the
+    linear regime (I_free the current induced at V = 0).
     """
-    va = z_cav * source
-    ia, state_a = gap_pass(va)
-    ra = va - z_cav * (source - ia)
-    vb = z_cav * (source - ia)
-    ib, state_b = gap_pass(vb)
-    rb = vb - z_cav * (source - ib)
+    y = np.zeros_like(z_cav) if admittance is None else admittance
+    jac = _as_matrix(1.0 + z_cav * y)
+    x = np.zeros_like(z_cav)
+    cur, state = gap_pass(x)
+    r = x - z_cav * (source - cur)
     floor = 1e-12 * v_scale
+    done = np.abs(r) <= tol * np.abs(x) + floor
     for _ in range(max_iter):
-        done = np.abs(rb) <= tol * np.abs(vb) + floor
         if np.all(done):
             break
-        denom = rb - ra
+        a, b, c, d = jac
+        det = a * d - b * c
         with np.errstate(invalid="ignore", divide="ignore"):
-            secant = vb - rb * (vb - va) / denom
-        vc = np.where(np.abs(denom) > 0, secant, z_cav * (source - ib))
+            dx_re = -(d * r.real - b * r.imag) / det
+            dx_im = -(-c * r.real + a * r.imag) / det
+        dx = dx_re + 1j * dx_im
+        dx = np.where(np.isfinite(dx) & ~done, dx, 0.0)
+        new = x + dx
         # keep trial voltages within a few beam voltages (beyond, every disk stalls)
-        big = np.abs(vc) > 4.0 * v_scale
-        vc = np.where(big, vc / np.abs(vc) * 4.0 * v_scale, vc)
-        vc = np.where(done, vb, vc)
-        va, ra = np.where(done, va, vb), np.where(done, ra, rb)
-        vb = vc
-        ib, state_b = gap_pass(vb)
-        rb = vb - z_cav * (source - ib)
-    done = np.abs(rb) <= tol * np.abs(vb) + floor
-    return vb, ib, state_b, done
+        big = np.abs(new) > 4.0 * v_scale
+        new = np.where(big, new / np.abs(np.where(big, new, 1.0)) * 4.0 * v_scale, new)
+        dx = new - x
+        cur_new, state_new = gap_pass(new)
+        r_new = new - z_cav * (source - cur_new)
+        # Broyden update J += (dr - J dx) dx^T / |dx|^2
+        dr = r_new - r
+        jdx_re = a * dx.real + b * dx.imag
+        jdx_im = c * dx.real + d * dx.imag
+        norm = np.abs(dx) ** 2
+        with np.errstate(invalid="ignore", divide="ignore"):
+            u_re = np.where(norm > 0, (dr.real - jdx_re) / norm, 0.0)
+            u_im = np.where(norm > 0, (dr.imag - jdx_im) / norm, 0.0)
+        jac = [a + u_re * dx.real, b + u_re * dx.imag, c + u_im * dx.real, d + u_im * dx.imag]
+        x, r, cur = np.where(done, x, new), np.where(done, r, r_new), np.where(done, cur, cur_new)
+        state = _merge(state, state_new, done)
+        done = np.abs(r) <= tol * np.abs(x) + floor
+    return x, cur, state, done
+
+
+def _merge(old, new, keep_old):
+    """Disk state taking ``old`` where keep_old, else ``new``."""
+    if not np.any(keep_old):
+        return new
+    new.phi = np.where(keep_old[:, None], old.phi, new.phi)
+    new.gam = np.where(keep_old[:, None], old.gam, new.gam)
+    new.low = np.where(keep_old, old.low, new.low)
+    new._inv_v = None
+    return new

@@ -56,9 +56,19 @@ def inverse_velocity(gam):
 
 
 def phase_powers(phi, harmonics):
-    """e^{j h phi} for h = 1..H, shape phi.shape + (H,)."""
-    z = np.exp(1j * phi)
-    return np.cumprod(np.broadcast_to(z[..., None], phi.shape + (harmonics,)), axis=-1)
+    """e^{j h phi} for h = 1..H, shape phi.shape + (H,).
+
+    Built by doubling (z^(k+m) = z^k z^m): about log2(H) array products.
+    """
+    out = np.empty(phi.shape + (harmonics,), dtype=complex)
+    out[..., 0] = np.exp(1j * phi)
+    have = 1
+    while have < harmonics:
+        take = min(have, harmonics - have)
+        # z^(have + k) = z^have * z^k for k = 1..take
+        np.multiply(out[..., :take], out[..., have - 1:have], out=out[..., have:have + take])
+        have += take
+    return out
 
 
 class Beam:
@@ -86,11 +96,13 @@ class Beam:
         self.current_scale = current_scale
         self.kinetic0 = kinetic0
         self.low = np.ones(phi.shape[0])
+        self._inv_v = None
 
     def copy(self):
         new = Beam(self.phi.copy(), self.gam.copy(), self.omega, self.sc_weights,
                    self.current_scale, self.kinetic0)
         new.low = self.low.copy()
+        new._inv_v = None if self._inv_v is None else self._inv_v.copy()
         return new
 
     def step(self, dz, gap_field=None):
@@ -105,26 +117,33 @@ class Beam:
 
         Returns
         -------
-        (ndarray or None, ndarray)
-            Induced-current increment (2 I0/N) g dz sum_j e^{-j phi_j} over the
-            step divided by V g (None without a gap field, see `Gap`), and the
-            mid-plane harmonic sums S_h, shape (P, H).
+        ndarray, complex, shape (P, H)
+            The mid-plane harmonic sums S_h = sum_j e^{j h phi_j}; the induced
+            current of a gap over the step is (2 I0/N) g dz conj(S_1).
         """
         from .spacecharge import disk_fields
 
-        self.phi += 0.5 * dz * self.omega * inverse_velocity(self.gam)
+        if self._inv_v is None:
+            self._inv_v = inverse_velocity(self.gam)
+        self.phi += (0.5 * dz) * self.omega * self._inv_v
         powers = phase_powers(self.phi, self.sc_weights.shape[1])
-        field = disk_fields(powers, self.sc_weights)
-        e1 = powers[..., 0]
         sums = powers.sum(axis=1)
+        field = disk_fields(powers, self.sc_weights, sums)
         if gap_field is not None:
             # Re(V g e^{j phi}) accelerates; its sum conj(e1) is the induced current
-            field = field + (gap_field[:, None] * e1).real
-        self.gam += dz * field / REST_VOLTAGE
-        kinetic = (self.gam.min(axis=1) - 1.0) / self.kinetic0
-        self.low = np.minimum(self.low, kinetic)
-        self.phi += 0.5 * dz * self.omega * inverse_velocity(self.gam)
+            field += (gap_field[:, None] * powers[..., 0]).real
+        self.gam += (dz / REST_VOLTAGE) * field
+        if gap_field is not None:
+            kinetic = (self.gam.min(axis=1) - 1.0) / self.kinetic0
+            np.minimum(self.low, kinetic, out=self.low)
+        self._inv_v = inverse_velocity(self.gam)
+        self.phi += (0.5 * dz) * self.omega * self._inv_v
         return sums
+
+    def check_low(self):
+        """Update the lowest kinetic energy with the present state (after a drift)."""
+        kinetic = (self.gam.min(axis=1) - 1.0) / self.kinetic0
+        np.minimum(self.low, kinetic, out=self.low)
 
     def stalled(self):
         """Points where some disk has fallen below `STALL_FRACTION` of the DC energy."""

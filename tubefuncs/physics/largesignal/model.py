@@ -69,7 +69,7 @@ class Accuracy:
     gap_steps: float = 32.0
     drift_steps_plasma: float = 48.0
     drift_steps_wave: float = 2.0
-    tol: float = 1e-7
+    tol: float = 1e-6
     max_iter: int = 40
 
 
@@ -288,12 +288,15 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
 
     trace_z, trace_i, trace_phi = [], [], []
 
-    def keep(z_mid, sums, state):
+    def keep(z_end, state):
+        # trace at the end of a step: |I1|, |I2| and each disk's phase relative to an
+        # unmodulated electron
         if record:
-            trace_z.append(z_mid)
-            trace_i.append(np.abs(sums[:, :2]) * state.current_scale[:, None])
-            # phase relative to an unmodulated electron
-            rel = state.phi - omega[:, None] * (z_mid - start[0]) / u0[:, None]
+            e = np.exp(-1j * state.phi)
+            trace_z.append(z_end)
+            trace_i.append(np.abs(np.stack([e.sum(axis=1), (e * e).sum(axis=1)], axis=1))
+                           * state.current_scale[:, None])
+            rel = state.phi - omega[:, None] * (z_end - start[0]) / u0[:, None]
             trace_phi.append(np.angle(np.exp(1j * (rel - np.pi))) + np.pi)
 
     status = np.zeros(n_pts, dtype=int)
@@ -327,7 +330,7 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
                 sums = state.step(dz, volt * gmid[:, m])
                 induced += gmid[:, m] * dz * np.conj(sums[:, 0])
                 if rec:
-                    keep(mids[m], sums, state)
+                    keep(mids[m] + 0.5 * dz, state)
             return induced * state.current_scale, state
 
         # the table's resonant frequency is the beam-loaded ("hot") one, as in
@@ -343,7 +346,7 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
                                   susceptance)
         source = source0 if n == 0 else np.zeros(n_pts)
         vn, i_n, beam, conv = circuit.solve_gap(gap_pass, z_cav, source + 0j, v,
-                                               acc.tol, acc.max_iter)
+                                               acc.tol, acc.max_iter, i_probe / probe)
         if record:
             _, beam = gap_pass(vn, rec=True)
         volts[n], amps[n] = vn, i_n
@@ -358,8 +361,9 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
             nd = max(1, int(np.ceil(length / dz_drift)))
             step = length / nd
             for m in range(nd):
-                sums = beam.step(step)
-                keep(end[n] + step * (m + 0.5), sums, beam)
+                beam.step(step)
+                keep(end[n] + step * (m + 1), beam)
+            beam.check_low()
             stalled = (status == OK) & beam.stalled()
             status[stalled], cav[stalled] = STALLED, n + 1
 

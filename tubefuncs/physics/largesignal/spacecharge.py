@@ -180,7 +180,7 @@ def field_scale(frequency, current, beam_radius, disks):
     return 2.0 * current / (disks * omega * sc.epsilon_0 * np.pi * beam_radius**2)
 
 
-def disk_fields(phase_powers, weights):
+def disk_fields(phase_powers, weights, sums=None):
     """Accelerating space-charge field on every disk.
 
     Parameters
@@ -189,13 +189,16 @@ def disk_fields(phase_powers, weights):
         e^{j h phi_i} for h = 1..H.
     weights : ndarray, shape (P, H)
         field_scale * K_h / h.
+    sums : ndarray, complex, shape (P, H), optional
+        S_h = sum_i e^{j h phi_i}, when already known.
 
     Returns
     -------
     ndarray, shape (P, N)
         E_i. [V/m]
     """
-    s = phase_powers.sum(axis=1)                     # S_h, (P, H)
-    # Im(S_h conj(e^{j h phi_i})) weighted and summed over h
-    ws = weights * s
-    return (phase_powers.real @ ws.imag[..., None] - phase_powers.imag @ ws.real[..., None])[..., 0]
+    s = phase_powers.sum(axis=1) if sums is None else sums
+    # Im(w_h S_h conj(e^{j h phi_i})) summed over h = Im(conj(powers) @ (w S))
+    # Im(conj(p) w) = -Im(p conj(w))
+    ws = np.conj(weights * s)
+    return -(phase_powers @ ws[..., None])[..., 0].imag
