@@ -45,10 +45,12 @@ def _limits_options(parser: argparse.ArgumentParser) -> None:
 
 
 def _engine_option(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("--engine", choices=("fast", "general"), default="fast",
+    parser.add_argument("--engine", choices=("fast", "general", "calc"), default="fast",
                         help="fast: evaluate same-shape formula cells together as vectors, "
                              "the rest cell by cell (default); general: every cell on its "
-                             "own. Both give the same values.")
+                             "own. Both give the same values. calc: the whole workbook "
+                             "recalculated by LibreOffice Calc (headless, private profile, "
+                             "our extension installed; needs LibreOffice).")
 
 
 # --- option values and outputs (checked before any work) ---------------------
@@ -140,6 +142,8 @@ def build_parser() -> argparse.ArgumentParser:
                    "applegate': large-signal plots (tubefuncs.largesignal_plot)", add_help=False)
     sub.add_parser("excel-setup", help="set up the Excel add-in (tubefuncs.excel.setup)",
                    add_help=False)
+    sub.add_parser("calc-setup", help="build and install the LibreOffice Calc extension "
+                   "(tubefuncs.calc.setup)", add_help=False)
     sub.add_parser("sweep", help="grid or tolerance study on dask (tubefuncs.sweeps)",
                    add_help=False)
     return parser
@@ -281,7 +285,7 @@ def _delegate(module: str, argv) -> int:
 COMMANDS = {"recalc": cmd_recalc, "check": cmd_check, "snapshot": cmd_snapshot,
             "demo": cmd_demo}
 DELEGATED = {"plot": "tubefuncs.gain_plot", "excel-setup": "tubefuncs.excel.setup",
-             "sweep": "tubefuncs.sweeps.cli"}
+             "calc-setup": "tubefuncs.calc.setup", "sweep": "tubefuncs.sweeps.cli"}
 
 
 def main(argv=None) -> int:

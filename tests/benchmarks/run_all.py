@@ -13,7 +13,8 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
-BENCHMARKS = ["bench_core", "bench_reduction", "bench_gain", "bench_recalc", "bench_sweep"]
+BENCHMARKS = ["bench_core", "bench_reduction", "bench_gain", "bench_recalc", "bench_sweep",
+              "bench_calc"]
 
 
 def main() -> int:

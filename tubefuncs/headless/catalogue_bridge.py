@@ -15,8 +15,11 @@ import numpy as np
 
 from . import values as V
 
-#: Prefixes that saved files put before the names of user-defined functions.
-UDF_PREFIXES = ("_XLUDF.", "_XLL.", "_XLFN._XLWS.", "_XLWS.", "_XLFN.")
+#: Prefixes that saved files put before the names of user-defined functions.  The
+#: last is LibreOffice Calc's: it saves a call of our extension under its long
+#: programmatic name (implementation name + function, upper case).
+UDF_PREFIXES = ("_XLUDF.", "_XLL.", "_XLFN._XLWS.", "_XLWS.", "_XLFN.",
+                "ORG.TUBEFUNCS.CALC.FUNCTIONS.")
 
 
 def strip_udf_prefix(name: str) -> str:

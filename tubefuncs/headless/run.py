@@ -12,7 +12,7 @@ from .limits import DEFAULT_LIMITS, Limits
 from .problems import WorkbookError
 from .writer import check_output, write_openpyxl
 
-ENGINES = ("fast", "general")
+ENGINES = ("fast", "general", "calc")
 
 
 def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
@@ -22,10 +22,16 @@ def recalculate(path, limits: Limits = DEFAULT_LIMITS, progress=None,
     ``engine``: ``"fast"`` (default) evaluates same-shape formula cells together
     as numpy vectors (:mod:`tubefuncs.headless.vector`) and hands everything
     else to the general engine; ``"general"`` evaluates every cell on its own.
-    Both give the same values.  An explicit ``evaluator`` runs the general plan.
+    Both give the same values.  ``"calc"`` hands the whole recalculation to
+    real LibreOffice Calc with our extension (:mod:`tubefuncs.calc.engine`).
+    An explicit ``evaluator`` runs the general plan.
     """
     if engine not in ENGINES:
         raise ValueError(f"engine must be one of {', '.join(ENGINES)} (got {engine!r})")
+    if engine == "calc":  # real LibreOffice Calc (tubefuncs.calc.engine)
+        from ..calc.engine import recalculate_calc
+
+        return recalculate_calc(path, limits=limits, progress=progress)
     if engine == "fast" and evaluator is None:
         from .vector import recalculate_fast
 
@@ -43,6 +49,10 @@ def write_recalculated(recalc, out_path) -> str:
     as openpyxl keeps them; VBA copied through, never run, into an ``.xlsm``).
     The output is written atomically; the input is never written.
     """
+    if getattr(recalc, "engine", "general") == "calc":  # Calc's own saved copy
+        from ..calc.engine import write_calc_output
+
+        return write_calc_output(recalc, out_path)
     if getattr(recalc, "engine", "general") == "fast":
         from .vector.writer import write_fast
 
