@@ -424,7 +424,9 @@ def test_fast_writer_writes_what_the_openpyxl_writer_writes(tmp_path, plain, fas
     for key in a:
         (va, ta, sa), (vb, tb, sb) = a[key], b[key]
         assert ta == tb and sa == sb, key
-        assert va == vb or abs(va - vb) <= 1e-15 * abs(vb), key   # openpyxl: 16 digits
+        # openpyxl keeps 16 digits; a long vectorised chain (the small-signal gain) and its
+        # cell-by-cell twin round differently in numpy's SIMD loops by a few ulps
+        assert va == vb or abs(va - vb) <= 1e-14 * abs(vb), key
     assert b"<f" not in read_part(fast, "xl/worksheets/sheet1.xml")
 
 

@@ -15,7 +15,7 @@ import math
 import mpmath
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 from scipy import constants as sc
@@ -23,7 +23,7 @@ from scipy import special
 from scipy.integrate import quad
 
 from tubefuncs.catalogue import CATALOGUE
-from tubefuncs.physics import gap
+from tubefuncs.physics import gap, loading
 
 V_REST = sc.m_e * sc.c**2 / sc.e  # m_e c^2 / e = 510998.95 V (CODATA via scipy)
 
@@ -221,8 +221,9 @@ def test_gridless_nonrelativistic_limit(v0):
 def test_gridless_large_argument_is_finite_and_right(frac):
     # g a ~ 1000: I0(1000) ~ 1e432 overflows doubles; the scaled form must stay finite.
     # Reference: mpmath at 50 digits with the same closed form (RMS identity above).
-    f, v0, a = 1e10, 1e3, 0.3
-    d = 1e-4
+    # A 1 V beam in a 9 mm tunnel at 10 GHz: below the TM01 cutoff (2 pi f a/c = 1.89).
+    f, v0, a = 1e10, 1.0, 0.009
+    d = 1e-7
     b = frac * a
     u0 = u0_exact(v0)
     g = 2 * np.pi * f / (u0 * gamma_exact(v0))
@@ -243,7 +244,7 @@ def test_gridless_large_argument_is_finite_and_right(frac):
 
 def test_gridless_large_argument_on_axis_underflows_to_zero():
     # On axis, 1/I0(1000) ~ 1e-433 is below the smallest double: 0, not NaN or an overflow.
-    m = gap.gap_coupling(1e10, 1e-4, 1e3, 0.0, 0.3)
+    m = gap.gap_coupling(1e10, 1e-7, 1.0, 0.0, 0.009)  # g a ~ 950, below TM01 cutoff
     assert m == 0.0
 
 
@@ -270,6 +271,8 @@ def test_gridless_needs_both_radii():
        frac=st.floats(0.0, 1.0), a=st.floats(1e-4, 5e-2))
 def test_gridless_never_exceeds_gridded(f, d, v0, frac, a):
     # 0 <= I0^2(gb) - I1^2(gb) <= I0^2(gb) <= I0^2(ga) for 0 <= b <= a: |M| <= |M_grid|.
+    # Only below the tunnel's TM01 cutoff (2 pi f a/c < 2.405), where the model applies.
+    assume(2 * np.pi * f * a / 299792458.0 < 2.4)
     x = np.pi * f * d / u0_exact(v0)
     m_grid = math.sin(x) / x
     m = gap.gap_coupling(f, d, v0, frac * a, a)
@@ -433,7 +436,9 @@ GAP_NAMES = ["TUBE_TRANSIT_ANGLE", "TUBE_GAP_COUPLING", "TUBE_BEAM_LOADING"]
 def test_catalogue_entry_matches_python_twin(name):
     fn = CATALOGUE[name]
     assert fn.python_name == name[len("TUBE_"):].lower()
-    assert fn.func is getattr(gap, fn.python_name)
+    # the worksheet beam loading (gridded or gridless) lives with the susceptance
+    module = loading if name == "TUBE_BEAM_LOADING" else gap
+    assert fn.func is getattr(module, fn.python_name)
     sig = list(inspect.signature(fn.func).parameters)
     assert sig == [p.name for p in fn.params]
 
@@ -442,18 +447,41 @@ def test_catalogue_design_signatures():
     # design.md, "Gap and bunching"
     assert [p.name for p in CATALOGUE["TUBE_GAP_COUPLING"].params] == [
         "frequency", "gap_length", "voltage", "beam_radius", "tunnel_radius"]
+    # issue 12: the radii follow the design's arguments, optional (gridless with space charge)
     assert [p.name for p in CATALOGUE["TUBE_BEAM_LOADING"].params] == [
-        "frequency", "gap_length", "voltage", "current"]
+        "frequency", "gap_length", "voltage", "current", "beam_radius", "tunnel_radius"]
     assert CATALOGUE["TUBE_TRANSIT_ANGLE"].result_unit == "rad"
     assert CATALOGUE["TUBE_BEAM_LOADING"].result_unit == "S"
     assert CATALOGUE["TUBE_GAP_COUPLING"].result_unit == ""
 
 
 def test_catalogue_radii_check():
-    (check,) = CATALOGUE["TUBE_GAP_COUPLING"].checks
+    check = CATALOGUE["TUBE_GAP_COUPLING"].checks[0]
     assert check.args == ("beam_radius", "tunnel_radius")
     assert bool(check.test(None, None))
     assert not bool(check.test(1e-3, None))
     assert not bool(check.test(None, 1e-3))
     assert list(check.test(np.array([1e-3, 3e-3]), 2e-3)) == [True, False]
     assert "beam_radius must be <= tunnel_radius" in check.message
+
+
+def test_gridless_coupling_needs_a_cut_off_tunnel():
+    # TM01 cutoff of a round guide: 2 pi f a / c = j01 = 2.404826 (zero of J0,
+    # Abramowitz & Stegun Table 9.5).  Just below it the gridless model applies,
+    # at and above it the tunnel propagates and the result is NaN (an error value
+    # through the worksheet layer, with the limit in its message).
+    import scipy.constants as sc
+
+    from tubefuncs.errors import TubeInputError
+    from tubefuncs.worksheet import evaluate
+
+    a = 7e-3
+    f_cut = 2.404826 * sc.c / (2 * np.pi * a)
+    m = gap.gap_coupling(np.array([0.999 * f_cut, 1.001 * f_cut]), 5e-3, 100e3, 5e-3, a)
+    assert np.isfinite(m[0]) and np.isnan(m[1])
+    with pytest.raises(TubeInputError) as info:
+        evaluate("TUBE_GAP_COUPLING", [1.001 * f_cut, 5e-3, 100e3, 5e-3, a])
+    assert info.value.error_value == "#NUM!"
+    assert "TM01 cutoff" in str(info.value) and "tunnel_radius" in str(info.value)
+    # the gridded gap has no tunnel and no such limit
+    assert np.isfinite(evaluate("TUBE_GAP_COUPLING", [1.001 * f_cut, 5e-3, 100e3]).value)

@@ -59,11 +59,28 @@ def evaluate(name: str, args: Sequence) -> Evaluation:
     if fn is None:
         raise TubeInputError(f"{name}: unknown function", NAME, function=str(name))
     params = fn.worksheet_params
+    slot = fn.extra.get("former_unit_slot")
+    if slot is not None and len(args) == slot + 1:
+        args = _former_unit_position(params, args, slot)
     if len(args) > len(params):
         raise TubeInputError(
             f"{fn.name}: takes at most {len(params)} arguments (got {len(args)})", VALUE,
             function=fn.name)
     return _Call(fn, params, args).run()
+
+
+def _former_unit_position(params, args, slot):
+    """Arguments with a unit text in its former slot moved to the last (``unit``) slot.
+
+    A function that gained optional text options between its last argument and
+    ``unit`` still reads a call written for the old order: a text in the first
+    option's slot that is none of that option's choices is the unit.
+    """
+    raw = args[slot]
+    if isinstance(raw, str) and raw.strip() and params[slot].choices and \
+            raw.strip().lower() not in {c.lower() for c in params[slot].choices}:
+        return tuple(args[:slot]) + (None,) * (len(params) - 1 - slot) + (raw,)
+    return args
 
 
 class _Call:
@@ -298,14 +315,17 @@ class _Call:
             take = np.equal(errors, None) & np.not_equal(err, None)
             errors[take] = err[take]
         names = [p.name for p in self.params]
+        kinds = {p.name: p.kind for p in self.params}
         for check in self.fn.checks:
             operands = [self.values[names.index(a)] for a in check.args]
             if any(op is None for op in operands):
                 continue
             ok = np.broadcast_to(_check_mask(check, operands), shape)
+            whole = [kinds[a] == "table" for a in check.args]  # tables are never indexed
             for idx in zip(*np.nonzero(~ok & np.equal(errors, None))):
                 errors[idx] = self.error(None, _check_text(
-                    check, [_element(op, idx) for op in operands]), check.error_value)
+                    check, [op if w else _element(op, idx) for op, w in zip(operands, whole)]),
+                    check.error_value)
         result = self.call_physics(self.values)
         with np.errstate(all="ignore"):
             out = np.array(apply_converter(converter, np.asarray(result, dtype=float)),

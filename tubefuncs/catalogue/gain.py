@@ -37,6 +37,19 @@ PARAMS = (
           "(empty = idle cavity), gap length (m).", kind="table"),
 )
 
+#: Optional options of every gain function, last and in this order.
+OPTIONS = (
+    Param("convention", "R/Q column convention: \"circuit\" (V^2/(2 omega W), default) or "
+          "\"accelerator\" (V^2/(omega W), as eigenmode solvers often report; \"linac\" "
+          "accepted).", kind="text", choices=gain.CONVENTIONS, default="circuit"),
+    Param("resonance", "What the frequency column holds: \"hot\" (beam-loaded, default) or "
+          "\"cold\" (cold-test; the beam-loading susceptance is then applied).", kind="text",
+          choices=gain.RESONANCES, default="hot"),
+    Param("depression", "Beam kinematics from the cathode voltage (\"none\", default) or from "
+          "the beam-averaged kinetic voltage after space-charge depression (\"mean\").",
+          kind="text", choices=gain.DEPRESSIONS, default="none"),
+)
+
 
 def _no_problem(*kinds):
     """Check test: the cavity table has no problem of these kinds."""
@@ -58,6 +71,19 @@ def _beam_in_tunnel(beam_radius, tunnel_radius):
     return np.asarray(beam_radius) <= np.asarray(tunnel_radius)
 
 
+def _limits_ok(*args):
+    """Check test: the validity limits of the cavity table with its beam hold."""
+    return gain.cavity_limits(*args).ok
+
+
+def _limits_text(*args):
+    """Check message: the first violated limits, naming the row or argument."""
+    return gain.cavity_limits(*args).message or "cavities: outside the model's validity"
+
+
+LIMIT_ARGS = ("frequency", "voltage", "current", "beam_radius", "tunnel_radius", "cavities",
+              "convention", "resonance", "depression")
+
 CHECKS = (
     Check(("cavities",), _no_problem("layout"), _problem_text("layout"), "#VALUE!"),
     Check(("cavities",), _no_problem("rows"), _problem_text("rows")),
@@ -67,10 +93,7 @@ CHECKS = (
     Check(("cavities",), _no_problem("port"), _problem_text("port")),
     Check(("beam_radius", "tunnel_radius"), _beam_in_tunnel,
           "beam_radius must be <= tunnel_radius"),
-    Check(("frequency", "voltage", "current", "beam_radius", "tunnel_radius", "cavities"),
-          gain.cavity_spacing_ok,
-          "cavities: each cavity must lie within half a reduced plasma wavelength "
-          "(u0/(2 f_q)) of the previous one"),
+    Check(LIMIT_ARGS, _limits_ok, _limits_text),
 )
 
 MODEL_NOTES = (
@@ -85,12 +108,22 @@ MODEL_NOTES = (
     "factor at the signal frequency; relativistic velocity modulation 1/(gamma(gamma+1)) "
     "(1/2 non-relativistically). Each cavity is a parallel resonant circuit from R/Q "
     "(circuit convention V^2/(2 omega W)), Q0 and Qext, loaded by the beam-loading "
-    "conductance (space-charge form); the beam-loading susceptance is not modelled, so give "
-    "the beam-loaded (hot) resonant frequency. Idle cavity: leave Qext empty (a very large "
-    "Qext gives the same). Not for saturation: small signal only. "
-    "Errors: cavities out of order, a cavity beyond half a reduced plasma wavelength from "
-    "the previous one, non-positive R/Q, Q0 or gap length, a wrong number of columns, "
-    "beam_radius > tunnel_radius."
+    "conductance (space-charge form). Options, optional and last in this order: convention "
+    "of the R/Q column (circuit default, accelerator = twice circuit); resonance \"hot\" "
+    "(default: the frequency column is beam-loaded) or \"cold\" (cold-test frequencies: "
+    "the beam-loading susceptance of each gap is added, which moves each resonance to its "
+    "beam-loaded value); depression \"mean\" to take the beam kinematics from the "
+    "depressed kinetic voltage. Idle cavity: leave Qext empty (a very large Qext gives the "
+    "same). Not for saturation: small signal only. "
+    "Errors: cavities out of order; gaps that overlap (spacing below half the sum of the "
+    "gap lengths plus one tunnel radius of fringing margin); a tunnel that propagates at "
+    "the frequency (2 pi f a/c >= 2.405, above TM01 cutoff); a current above the "
+    "space-charge limiting current; a cavity whose net conductance 1/Q0 + 1/Qext + "
+    "(R/Q) G_B is <= 0 (the beam would make it oscillate); non-positive R/Q, Q0 or gap "
+    "length; a wrong number of columns; beam_radius > tunnel_radius. "
+    "Design rule, not checked: cavities are usually spaced below a quarter reduced "
+    "plasma wavelength; beyond half of it the current from the previous gap has passed a "
+    "null, which wastes drift length but is still inside the linear theory."
 )
 
 INVALID = ("outside the small-signal model (reduced plasma frequency >= frequency, or the "
@@ -98,7 +131,7 @@ INVALID = ("outside the small-signal model (reduced plasma frequency >= frequenc
 
 FUNCTIONS = [
     Function(
-        name="TUBE_SMALL_SIGNAL_GAIN", func=gain.small_signal_gain, params=PARAMS,
+        name="TUBE_SMALL_SIGNAL_GAIN", func=gain.small_signal_gain, params=PARAMS + OPTIONS,
         result_unit="",
         help="Small-signal gain (dB) of a multi-cavity klystron: output power into the output "
              "cavity's load over the available power of a matched driver at the input port; "
@@ -108,36 +141,49 @@ FUNCTIONS = [
         category=CATEGORY, checks=CHECKS, invalid_result=INVALID, notes=MODEL_NOTES,
     ),
     Function(
-        name="TUBE_SMALL_SIGNAL_PHASE", func=gain.small_signal_phase, params=PARAMS,
+        name="TUBE_SMALL_SIGNAL_PHASE", func=gain.small_signal_phase, params=PARAMS + OPTIONS,
         result_unit="deg",
         help="Small-signal phase of the output-gap voltage relative to the drive, in degrees "
              "(-180 to 180], transit delay included; same model and arguments as "
              "TUBE_SMALL_SIGNAL_GAIN.",
         references=(REF_RAMO, REF_WESSEL_BERG, REF_CARYOTAKIS, REF_POZAR),
-        category=CATEGORY, checks=CHECKS, invalid_result=INVALID, notes=MODEL_NOTES,
-        result_units=("deg", "rad"),
+        category=CATEGORY, checks=CHECKS, invalid_result=INVALID,
+        notes=MODEL_NOTES + " A unit right after cavities (its place before the options "
+                            "existed) is still read as the unit.",
+        result_units=("deg", "rad"), extra={"former_unit_slot": 6},
     ),
 ]
 
 
-def _spacing_ok_at_centre(voltage, current, beam_radius, tunnel_radius, cavities):
-    """The plasma-wavelength spacing check at the mean cavity frequency."""
+def _centre(cavities):
     table = np.asarray(cavities, dtype=float)
-    if table.ndim != 2 or table.shape[1] != gain.N_COLUMNS or gain.table_problems(table):
+    return float(np.nanmean(table[:, gain.F0]))
+
+
+def _table_fine(cavities):
+    table = np.asarray(cavities, dtype=float)
+    return table.ndim == 2 and table.shape[1] == gain.N_COLUMNS and not gain.table_problems(table)
+
+
+def _limits_ok_at_centre(voltage, current, beam_radius, tunnel_radius, cavities, *options):
+    """The validity limits at the mean cavity frequency."""
+    if not _table_fine(cavities):
         return np.bool_(True)  # the table checks report it
-    centre = float(np.nanmean(table[:, gain.F0]))
-    return gain.cavity_spacing_ok(centre, voltage, current, beam_radius, tunnel_radius, table)
+    return gain.cavity_limits(_centre(cavities), voltage, current, beam_radius, tunnel_radius,
+                              cavities, *options).ok
+
+
+def _limits_text_at_centre(voltage, current, beam_radius, tunnel_radius, cavities, *options):
+    return gain.cavity_limits(_centre(cavities), voltage, current, beam_radius, tunnel_radius,
+                              cavities, *options).message or "cavities: outside the model"
 
 
 BANDWIDTH_PARAMS = PARAMS[1:] + (
     Param("drop_db", "Drop below the peak gain that bounds the band (dB); 1 dB by default.",
           default=1.0, domain=POSITIVE),
-)
+) + OPTIONS
 BANDWIDTH_CHECKS = tuple(c for c in CHECKS if "frequency" not in c.args) + (
-    Check(("voltage", "current", "beam_radius", "tunnel_radius", "cavities"),
-          _spacing_ok_at_centre,
-          "cavities: each cavity must lie within half a reduced plasma wavelength "
-          "(u0/(2 f_q)) of the previous one"),
+    Check(LIMIT_ARGS[1:], _limits_ok_at_centre, _limits_text_at_centre),
 )
 
 FUNCTIONS.append(
@@ -154,6 +200,32 @@ FUNCTIONS.append(
         notes="The gain is swept over the cavity frequencies widened by eight times the "
               "widest cavity bandwidth f0/Q_L on each side (4001 points), and each band edge "
               "is refined on a finer sweep. A second lobe separated from the peak by a "
-              "deeper dip does not count. " + MODEL_NOTES,
+              "deeper dip does not count. A unit right after drop_db (its place before the "
+              "options existed) is still read as the unit. " + MODEL_NOTES,
+        extra={"former_unit_slot": 6},
     )
 )
+
+
+PUSHING_NOTES = ("Central difference of the small-signal transfer at (1 +/- 1e-5) times the "
+                 "argument, so the phase needs no unwrapping. Dominated by the transit delay "
+                 "omega L/u0 of the whole tube. " + MODEL_NOTES)
+
+FUNCTIONS += [
+    Function(
+        name="TUBE_PHASE_PER_VOLT", func=gain.phase_per_volt, params=PARAMS + OPTIONS,
+        result_unit="rad/V", result_units=("deg/V", "deg/kV"),
+        help="Phase pushing: change of the small-signal output phase per volt of beam voltage "
+             "at constant current, from the gain model (for a modulator ripple budget).",
+        references=(REF_CARYOTAKIS, REF_WEBSTER),
+        category=CATEGORY, checks=CHECKS, invalid_result=INVALID, notes=PUSHING_NOTES,
+    ),
+    Function(
+        name="TUBE_PHASE_PER_AMPERE", func=gain.phase_per_ampere, params=PARAMS + OPTIONS,
+        result_unit="rad/A", result_units=("deg/A",),
+        help="Phase pushing: change of the small-signal output phase per ampere of beam "
+             "current at constant voltage, from the gain model.",
+        references=(REF_CARYOTAKIS, REF_BRANCH_MIHRAN),
+        category=CATEGORY, checks=CHECKS, invalid_result=INVALID, notes=PUSHING_NOTES,
+    ),
+]

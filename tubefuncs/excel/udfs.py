@@ -5,7 +5,7 @@ GENERATED FILE: do not edit.  Regenerate after any catalogue change with
     python -m tubefuncs.excel.generate
 
 then click Import Functions on Excel's xlwings tab (see addin/README.md).
-55 functions, generated from tubefuncs.catalogue.  This is the only module
+67 functions, generated from tubefuncs.catalogue.  This is the only module
 of tubefuncs that imports xlwings.  Every argument is declared ndim=2 (a cell
 arrives as [[x]], a column keeps its orientation) with err_to_str=True (an
 error cell arrives as its text, e.g. "#DIV/0!", never as a number); optional
@@ -21,20 +21,27 @@ from tubefuncs.excel.adapter import call as _call
 __all__ = [
     "TUBE_AVERAGE_POWER",
     "TUBE_BEAM_CURRENT",
+    "TUBE_BEAM_LOADED_FREQ",
     "TUBE_BEAM_LOADING",
     "TUBE_BEAM_POWER",
+    "TUBE_BEAM_SUSCEPTANCE",
     "TUBE_BETA",
     "TUBE_BRILLOUIN_FIELD",
     "TUBE_BUNCHING_PARAM",
+    "TUBE_CATHODE_FLUX",
+    "TUBE_CATHODE_LOADING",
     "TUBE_CHILD_LANGMUIR",
     "TUBE_CIRCUIT_EFFICIENCY",
     "TUBE_CN0",
     "TUBE_COLLECTOR_POWER",
+    "TUBE_CONFINED_FLOW_FIELD",
     "TUBE_CONVERT",
     "TUBE_COOLANT_FLOW",
     "TUBE_COUPLING_BETA",
+    "TUBE_DEPRESSED_VOLTAGE",
     "TUBE_DISH_GAIN",
     "TUBE_EFFICIENCY",
+    "TUBE_EFFICIENCY_ESTIMATE",
     "TUBE_EIRP",
     "TUBE_FSPL",
     "TUBE_GAMMA",
@@ -44,17 +51,22 @@ __all__ = [
     "TUBE_HARMONIC_CURRENT",
     "TUBE_HELP",
     "TUBE_LARGE_SIGNAL_GAIN",
+    "TUBE_LIMITING_CURRENT",
     "TUBE_LOADED_Q",
     "TUBE_OPTIMUM_DRIFT",
+    "TUBE_OPTIMUM_QEXT",
     "TUBE_OUTPUT_GAP_VOLTAGE",
     "TUBE_OUTPUT_PHASE",
     "TUBE_OUTPUT_POWER",
     "TUBE_PERVEANCE",
+    "TUBE_PHASE_PER_AMPERE",
+    "TUBE_PHASE_PER_VOLT",
     "TUBE_PILLBOX_FREQ",
     "TUBE_PILLBOX_Q",
     "TUBE_PILLBOX_R_OVER_Q",
     "TUBE_PLASMA_FREQ",
     "TUBE_PLASMA_WAVELENGTH",
+    "TUBE_POTENTIAL_DEPRESSION",
     "TUBE_REDUCED_PLASMA_FREQ",
     "TUBE_REDUCTION_FACTOR",
     "TUBE_SALEH_AMPLITUDE",
@@ -287,12 +299,60 @@ def TUBE_GAP_COUPLING(frequency, gap_length, voltage, beam_radius=None, tunnel_r
 @xw.arg("voltage", ndim=2, err_to_str=True,
         doc='Beam accelerating voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
 @xw.arg("current", ndim=2, err_to_str=True,
-        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+        doc='DC beam current (> 0 with the radii). Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam; omit with tunnel_radius for a gridded gap without space charge. Number in m, or text with a unit. A range gives a range. Optional.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Drift-tube radius at the gap; omit with beam_radius for a gridded gap. Number in m, or text with a unit. A range gives a range. Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default S). Optional. E.g. "uS", "mS", "S".')
-def TUBE_BEAM_LOADING(frequency, gap_length, voltage, current, unit=None):
-    'Electronic beam-loading conductance of a gridded gap, kinematic small-signal: G_B = (I0/V0)(M^2 - M cos(theta/2))/(gamma(gamma+1)). No space charge.'
-    return _call("TUBE_BEAM_LOADING", (frequency, gap_length, voltage, current, unit))
+def TUBE_BEAM_LOADING(frequency, gap_length, voltage, current, beam_radius=None, tunnel_radius=None, unit=None):
+    'Beam-loading conductance G_B of a gap: gridded, kinematic without the radii; with both radii a gridless gap with space charge (two-wave form of the gain model). Q_B = 1/((R/Q) G_B), circuit R/Q.'
+    return _call("TUBE_BEAM_LOADING", (frequency, gap_length, voltage, current, beam_radius, tunnel_radius, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("gap_length", ndim=2, err_to_str=True,
+        doc='Gap length along the beam. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam accelerating voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current (> 0 with the radii). Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam; omit with tunnel_radius for a gridded gap without space charge. Number in m, or text with a unit. A range gives a range. Optional.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Drift-tube radius at the gap; omit with beam_radius for a gridded gap. Number in m, or text with a unit. A range gives a range. Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default S). Optional. E.g. "uS", "mS", "S".')
+def TUBE_BEAM_SUSCEPTANCE(frequency, gap_length, voltage, current, beam_radius=None, tunnel_radius=None, unit=None):
+    "Beam-loading susceptance B_B of a gap (same models and arguments as TUBE_BEAM_LOADING); positive = capacitive, lowering the cavity's resonance."
+    return _call("TUBE_BEAM_SUSCEPTANCE", (frequency, gap_length, voltage, current, beam_radius, tunnel_radius, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("cold_frequency", ndim=2, err_to_str=True,
+        doc='Resonant frequency measured without beam (cold test). Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("r_over_q", ndim=2, err_to_str=True,
+        doc='R/Q of the cavity, in the given convention. Number in ohm, or text with a unit. A range gives a range.')
+@xw.arg("gap_length", ndim=2, err_to_str=True,
+        doc='Gap length along the beam. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam accelerating voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current (> 0 with the radii). Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam; omit with tunnel_radius for a gridded gap without space charge. Number in m, or text with a unit. A range gives a range. Optional.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Drift-tube radius at the gap; omit with beam_radius for a gridded gap. Number in m, or text with a unit. A range gives a range. Optional.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q convention: "circuit" (default) or "accelerator" ("linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default Hz). Optional. E.g. "GHz", "MHz".')
+def TUBE_BEAM_LOADED_FREQ(cold_frequency, r_over_q, gap_length, voltage, current, beam_radius=None, tunnel_radius=None, convention=None, unit=None):
+    'Beam-loaded (hot) resonant frequency of a cavity from its cold-test frequency: the beam-loading susceptance B_B detunes it, f/fc - fc/f = -(R/Q) B_B(f).'
+    return _call("TUBE_BEAM_LOADED_FREQ", (cold_frequency, r_over_q, gap_length, voltage, current, beam_radius, tunnel_radius, convention, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -446,9 +506,15 @@ def TUBE_GAP_VOLTAGE(power, r_over_q, q_loaded, convention=None, unit=None):
         doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("cavities", ndim=2, err_to_str=True,
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
-def TUBE_SMALL_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+def TUBE_SMALL_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None):
     "Small-signal gain (dB) of a multi-cavity klystron: output power into the output cavity's load over the available power of a matched driver at the input port; space-charge-wave theory."
-    return _call("TUBE_SMALL_SIGNAL_GAIN", (frequency, voltage, current, beam_radius, tunnel_radius, cavities))
+    return _call("TUBE_SMALL_SIGNAL_GAIN", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression))
 
 
 @xw.func(category="tubefuncs")
@@ -464,11 +530,17 @@ def TUBE_SMALL_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radi
         doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("cavities", ndim=2, err_to_str=True,
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default deg). Optional. E.g. "deg", "rad".')
-def TUBE_SMALL_SIGNAL_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
+def TUBE_SMALL_SIGNAL_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
     'Small-signal phase of the output-gap voltage relative to the drive, in degrees (-180 to 180], transit delay included; same model and arguments as TUBE_SMALL_SIGNAL_GAIN.'
-    return _call("TUBE_SMALL_SIGNAL_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+    return _call("TUBE_SMALL_SIGNAL_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -484,11 +556,69 @@ def TUBE_SMALL_SIGNAL_PHASE(frequency, voltage, current, beam_radius, tunnel_rad
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drop_db", ndim=2, err_to_str=True,
         doc='Drop below the peak gain that bounds the band (dB); 1 dB by default. Number. A range gives a range. Optional.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default Hz). Optional. E.g. "MHz", "kHz", "GHz".')
-def TUBE_SMALL_SIGNAL_BANDWIDTH(voltage, current, beam_radius, tunnel_radius, cavities, drop_db=None, unit=None):
+def TUBE_SMALL_SIGNAL_BANDWIDTH(voltage, current, beam_radius, tunnel_radius, cavities, drop_db=None, convention=None, resonance=None, depression=None, unit=None):
     'Width of the band around the small-signal gain peak in which the gain stays within drop_db (1 dB by default) of the peak; same model and cavity table as TUBE_SMALL_SIGNAL_GAIN.'
-    return _call("TUBE_SMALL_SIGNAL_BANDWIDTH", (voltage, current, beam_radius, tunnel_radius, cavities, drop_db, unit))
+    return _call("TUBE_SMALL_SIGNAL_BANDWIDTH", (voltage, current, beam_radius, tunnel_radius, cavities, drop_db, convention, resonance, depression, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default rad/V). Optional. E.g. "deg/V", "deg/kV".')
+def TUBE_PHASE_PER_VOLT(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
+    'Phase pushing: change of the small-signal output phase per volt of beam voltage at constant current, from the gain model (for a modulator ripple budget).'
+    return _call("TUBE_PHASE_PER_VOLT", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("frequency", ndim=2, err_to_str=True,
+        doc='Signal frequency; a range gives one result per frequency. Number in Hz, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to anode). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("cavities", ndim=2, err_to_str=True,
+        doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default rad/A). Optional. E.g. "deg/A".')
+def TUBE_PHASE_PER_AMPERE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
+    'Phase pushing: change of the small-signal output phase per ampere of beam current at constant voltage, from the gain model.'
+    return _call("TUBE_PHASE_PER_AMPERE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -875,3 +1005,119 @@ def TUBE_SATURATION_DRIVE(frequency, voltage, current, beam_radius, tunnel_radiu
 def TUBE_SATURATED_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
     'Efficiency at saturation of a multi-cavity klystron: saturated output power over beam power V0 I0 (large-signal disk model). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
     return _call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to tunnel). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the uniform solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default A). Optional. E.g. "A", "kA".')
+def TUBE_LIMITING_CURRENT(voltage, beam_radius, tunnel_radius, unit=None):
+    'Space-charge limiting current of a solid beam in its tunnel (confined flow): 17.045 kA (gamma^(2/3) - 1)^1.5/(1 + 2 ln(a/b)).'
+    return _call("TUBE_LIMITING_CURRENT", (voltage, beam_radius, tunnel_radius, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to tunnel). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the uniform solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default V). Optional. E.g. "V", "kV".')
+def TUBE_POTENTIAL_DEPRESSION(current, voltage, beam_radius, tunnel_radius, unit=None):
+    'Space-charge potential depression on the beam axis, I0 (1 + 2 ln(a/b))/(4 pi eps0 u), self-consistent; TUBE_DEPRESSED_VOLTAGE gives the kinetic voltage.'
+    return _call("TUBE_POTENTIAL_DEPRESSION", (current, voltage, beam_radius, tunnel_radius, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to tunnel). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the uniform solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("tunnel_radius", ndim=2, err_to_str=True,
+        doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
+@xw.arg("location", ndim=2, err_to_str=True,
+        doc='"mean" (default): averaged over the beam; "axis": on the axis. One of: "mean", "axis". Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default V). Optional. E.g. "V", "kV".')
+def TUBE_DEPRESSED_VOLTAGE(current, voltage, beam_radius, tunnel_radius, location=None, unit=None):
+    'Kinetic voltage of the beam after its space-charge depression (beam average by default, or on the axis); what the gain functions use with depression "mean".'
+    return _call("TUBE_DEPRESSED_VOLTAGE", (current, voltage, beam_radius, tunnel_radius, location, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to tunnel). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the uniform solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("ratio", ndim=2, err_to_str=True,
+        doc='Focusing field over the Brillouin field, >= 1 (default 2). Number. A range gives a range. Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default T). Optional. E.g. "T", "mT".')
+def TUBE_CONFINED_FLOW_FIELD(current, voltage, beam_radius, ratio=None, unit=None):
+    'Axial focusing field of a confined-flow beam, ratio times the relativistic Brillouin field; TUBE_CATHODE_FLUX gives the cathode flux it needs.'
+    return _call("TUBE_CONFINED_FLOW_FIELD", (current, voltage, beam_radius, ratio, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("voltage", ndim=2, err_to_str=True,
+        doc='Beam voltage (cathode to tunnel). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the uniform solid round beam, <= tunnel_radius. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("ratio", ndim=2, err_to_str=True,
+        doc='Focusing field over the Brillouin field, >= 1 (default 2). Number. A range gives a range. Optional.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default Wb). Optional. E.g. "Wb", "mWb", "uWb".')
+def TUBE_CATHODE_FLUX(current, voltage, beam_radius, ratio=None, unit=None):
+    'Magnetic flux through the cathode that holds the beam at its radius in a field ratio times the Brillouin field: pi b^2 B_B sqrt(ratio^2 - 1).'
+    return _call("TUBE_CATHODE_FLUX", (current, voltage, beam_radius, ratio, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("current", ndim=2, err_to_str=True,
+        doc='DC beam current. Number in A, or text with a unit. A range gives a range.')
+@xw.arg("beam_radius", ndim=2, err_to_str=True,
+        doc='Radius of the beam in the tunnel. Number in m, or text with a unit. A range gives a range.')
+@xw.arg("convergence", ndim=2, err_to_str=True,
+        doc='Area convergence: cathode area over beam area, >= 1. Number. A range gives a range.')
+@xw.arg("unit", ndim=2, err_to_str=True,
+        doc='Unit of the result (default A/m**2). Optional. E.g. "A/cm**2", "A/m**2".')
+def TUBE_CATHODE_LOADING(current, beam_radius, convergence, unit=None):
+    'Current density at the cathode, I0/(pi b^2 C), of a gun with area convergence C = cathode area / beam area.'
+    return _call("TUBE_CATHODE_LOADING", (current, beam_radius, convergence, unit))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("perveance", ndim=2, err_to_str=True,
+        doc="Beam perveance (text such as '1.2 uperv' accepted), 0 to 4 uperv. Number in A/V**1.5, or text with a unit. A range gives a range.")
+def TUBE_EFFICIENCY_ESTIMATE(perveance):
+    'Typical efficiency of a conventional klystron, 0.90 - 0.20 x microperveance (common practice: a trend line through existing tubes, not a bound).'
+    return _call("TUBE_EFFICIENCY_ESTIMATE", (perveance,))
+
+
+@xw.func(category="tubefuncs")
+@xw.arg("power", ndim=2, err_to_str=True,
+        doc='RF output power into the load. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("gap_voltage", ndim=2, err_to_str=True,
+        doc='Peak output-gap voltage (commonly 0.8 to 1 times the beam voltage at saturation). Number in V, or text with a unit. A range gives a range.')
+@xw.arg("r_over_q", ndim=2, err_to_str=True,
+        doc='R/Q of the output cavity, in the given convention. Number in ohm, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q convention: "circuit" (default) or "accelerator" ("linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+def TUBE_OPTIMUM_QEXT(power, gap_voltage, r_over_q, convention=None):
+    'External Q of the output cavity that delivers the power at the gap voltage: Qext = V^2/(2 (R/Q) P) in the circuit convention (common practice). Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    return _call("TUBE_OPTIMUM_QEXT", (power, gap_voltage, r_over_q, convention))

@@ -17,8 +17,10 @@ six columns (SI units):
 col   quantity                unit    note
 ====  ======================  ======  =========================================
 0     position along the beam m       gap centre; any origin; increasing
-1     resonant frequency      Hz      the beam-loaded ("hot") frequency
-2     R/Q                     ohm     circuit convention, V^2/(2 omega W)
+1     resonant frequency      Hz      beam-loaded ("hot"); cold-test with
+                                      the option resonance="cold"
+2     R/Q                     ohm     circuit convention, V^2/(2 omega W);
+                                      accelerator with convention=...
 3     Q0                      1       unloaded (wall) Q
 4     Qext                    1       external Q; empty (NaN), inf or a very
                                       large number = idle cavity (no load)
@@ -206,20 +208,266 @@ def _beam(frequency, voltage, current, beam_radius, tunnel_radius):
     return _Beam(f, v, i, b, a, u0, f_q, ok)
 
 
+#: Options of the gain functions (text arguments, case-insensitive), default first.
+CONVENTIONS = ("circuit", "accelerator", "linac")
+RESONANCES = ("hot", "cold")
+DEPRESSIONS = ("none", "mean")
+#: Kinds of validity limit that `cavity_limits` checks.
+LIMIT_KINDS = ("overlap", "cutoff", "current", "conductance")
+
+
+def _option(value, allowed, argument):
+    """Normalised text option (case and blanks ignored), or ValueError naming the argument."""
+    key = value.strip().lower() if isinstance(value, str) else None
+    if key not in allowed:
+        choices = ", ".join(f"'{c}'" for c in allowed)
+        raise ValueError(f"{argument} must be one of {choices}, got {value!r}")
+    return key
+
+
+@dataclass(frozen=True)
+class _Setup:
+    """Everything the chain and the validity limits share (see `_prepare`)."""
+
+    beam: _Beam
+    table: np.ndarray      # validated table, R/Q in the circuit convention
+    cathode_voltage: np.ndarray
+    beta_q: np.ndarray     # plasma wave number used (floored), shape S [rad/m]
+    modulation: np.ndarray
+    g0: np.ndarray
+    m_fast: np.ndarray     # (n,) + S
+    m_slow: np.ndarray
+    y_beam: np.ndarray     # (n,) + S beam admittance [S]
+    limits: dict           # kind -> bool array S (True = fine) or per-cavity (n,) + S
+
+
+def _prepare(frequency, voltage, current, beam_radius, tunnel_radius, table,
+             convention="circuit", resonance="hot", depression="none"):
+    """Beam, couplings, beam admittance and validity masks of a validated table."""
+    from . import optics
+    from .cavity import convention_factor
+    from .loading import P01, _hilbert_gridless
+
+    resonance = _option(resonance, RESONANCES, "resonance")
+    depression = _option(depression, DEPRESSIONS, "depression")
+    table = np.array(table, dtype=float)
+    table[:, RQ] = table[:, RQ] / convention_factor(convention)  # -> circuit R/Q
+    v_cathode = np.asarray(voltage, dtype=float)
+    if depression == "mean":
+        # beam-averaged kinetic voltage after the space-charge depression
+        v_kin = optics.depressed_voltage(current, voltage, beam_radius, tunnel_radius, "mean")
+    else:
+        v_kin = v_cathode
+    beam = _beam(frequency, v_kin, current, beam_radius, tunnel_radius)
+    f, v, i, b, a, u0 = beam.f, beam.v, beam.i, beam.b, beam.a, beam.u0
+    nd = f.ndim
+    g = gamma(v)
+    modulation = 1.0 / (g * (g + 1.0))  # relativistic velocity modulation [6]
+    with np.errstate(invalid="ignore", divide="ignore"):
+        g0 = i / v
+        beta_e = TWO_PI * f / u0
+        # a vanishing plasma wave number is replaced by a tiny one, which avoids
+        # 0/0 and changes the results by about (1e-6 theta_0)^2/6 relative
+        beta_q = np.maximum(TWO_PI * beam.f_q / u0, _MIN_WAVE_STEP * beta_e)
+        gap_len = _column(table[:, GAP], nd)
+        m_fast = wave_coupling(f, gap_len, beta_e - beta_q, b, a)
+        m_slow = wave_coupling(f, gap_len, beta_e + beta_q, b, a)
+        y_beam = _beam_conductance(modulation * g0, beta_e, m_fast, m_slow, beta_q).astype(complex)
+        if resonance == "cold":
+            # the table holds cold-test frequencies: add the beam susceptance
+            # B_B = kappa G0 (beta_e/(2 beta_q)) [S(beta_s) - S(beta_f)] (loading module)
+            shape = m_fast.shape
+            full = [np.broadcast_to(x, shape).ravel() for x in
+                    (beta_e, beta_q, TWO_PI * f / sc.c, gap_len, b, a)]
+            be, bq, k0, dd, bb, aa = full
+            good = np.isfinite(m_fast.ravel()) & np.isfinite(m_slow.ravel())
+            s_diff = np.full(be.shape, np.nan)
+            if np.any(good):
+                sel = [x[good] for x in (be, bq, k0, dd, bb, aa)]
+                s_f, s_s = _hilbert_gridless((sel[0] - sel[1], sel[0] + sel[1]), sel[0],
+                                             *sel[2:])
+                s_diff[good] = s_s - s_f
+            y_beam = y_beam + 1j * (modulation * g0 * beta_e / (2.0 * beta_q)
+                                    * s_diff.reshape(shape))
+    rq = _column(table[:, RQ], nd)
+    inv_qext = _column(np.where(np.isnan(table[:, QEXT]), 0.0, 1.0 / table[:, QEXT]), nd)
+    half = 0.5 * (table[1:, GAP] + table[:-1, GAP])
+    spacing = np.diff(table[:, POS])
+    with np.errstate(invalid="ignore"):
+        limits = {
+            # gaps (plus a fringing margin of one tunnel radius) must not overlap
+            "overlap": _column(spacing - half, nd) >= a,
+            # the tunnel must be below the TM01 cutoff at the signal frequency
+            "cutoff": TWO_PI * f * a / sc.c < P01,
+            # the beam must be below its space-charge limiting current
+            "current": i < optics.limiting_current(v_cathode, b, a),
+            # the net conductance of every cavity must be positive
+            "conductance": ~(1.0 / _column(table[:, Q0], nd) + inv_qext
+                             + rq * np.real(y_beam) <= 0.0),
+        }
+    return _Setup(beam, table, v_cathode, beta_q, modulation, g0, m_fast, m_slow, y_beam,
+                  limits)
+
+
+def _first(mask):
+    """Flat index of the first False of a mask, or None."""
+    bad = ~np.asarray(mask, dtype=bool)
+    return int(np.flatnonzero(bad.ravel())[0]) if bad.any() else None
+
+
+def _limit_texts(setup):
+    """(kind, text) of the first violation of each validity limit."""
+    beam, t, lim = setup.beam, setup.table, setup.limits
+    out = []
+    f = beam.f.ravel()
+    a = np.broadcast_to(beam.a, beam.f.shape).ravel()
+    n_rows = t.shape[0]
+    for k in range(1, n_rows):
+        bad = ~np.broadcast_to(lim["overlap"][k - 1], beam.f.shape)
+        if bad.any():
+            j = int(np.flatnonzero(bad.ravel())[0])
+            spacing = t[k, POS] - t[k - 1, POS]
+            half = 0.5 * (t[k, GAP] + t[k - 1, GAP])
+            out.append(("overlap", (
+                f"cavities rows {k} and {k + 1} overlap: spacing {spacing:.4g} m must be >= "
+                f"half the sum of the gap lengths ({half:.4g} m) plus a fringing margin of one "
+                f"tunnel_radius ({a[j]:.4g} m)")))
+            break
+    j = _first(np.broadcast_to(lim["cutoff"], beam.f.shape))
+    if j is not None:
+        out.append(("cutoff", (
+            f"tunnel_radius {a[j]:.4g} m propagates at {f[j]:.6g} Hz: 2 pi f a/c = "
+            f"{TWO_PI * f[j] * a[j] / sc.c:.4g} must be < 2.405 (TM01 cutoff); the gap "
+            "coupling model needs a cut-off tunnel")))
+    j = _first(np.broadcast_to(lim["current"], beam.f.shape))
+    if j is not None:
+        from . import optics
+        vc = np.broadcast_to(setup.cathode_voltage, beam.f.shape).ravel()[j]
+        b = np.broadcast_to(beam.b, beam.f.shape).ravel()[j]
+        i = np.broadcast_to(beam.i, beam.f.shape).ravel()[j]
+        il = float(optics.limiting_current(vc, b, a[j]))
+        out.append(("current", (
+            f"current {i:.4g} A must be below the space-charge limiting current "
+            f"{il:.4g} A of the beam in its tunnel (voltage {vc:.6g} V, beam_radius {b:.4g} m, "
+            f"tunnel_radius {a[j]:.4g} m)")))
+    cond = np.broadcast_to(lim["conductance"], (n_rows,) + beam.f.shape).reshape(n_rows, -1)
+    for row in range(n_rows):
+        if not cond[row].all():
+            j = int(np.flatnonzero(~cond[row])[0])
+            rq = t[row, RQ]
+            y = np.broadcast_to(setup.y_beam[row], beam.f.shape).ravel()[j]
+            qext = t[row, QEXT]
+            net = 1.0 / t[row, Q0] + (0.0 if np.isnan(qext) else 1.0 / qext) + rq * y.real
+            out.append(("conductance", (
+                f"cavities row {row + 1}: net conductance 1/Q0 + 1/Qext + (R/Q) G_B = {net:.3g} "
+                f"<= 0 at {f[j]:.6g} Hz (beam loading G_B = {y.real:.3g} S): the beam would "
+                "drive the cavity into oscillation")))
+            break
+    return out
+
+
+@dataclass(frozen=True)
+class CavityLimits:
+    """Validity limits of a cavity table with its beam (see `cavity_limits`).
+
+    Attributes
+    ----------
+    ok : ndarray of bool, broadcast shape S of the numeric arguments
+        True where every limit holds.
+    problems : list of (str, str)
+        (kind, text) of the first violation of each kind, kind one of
+        `LIMIT_KINDS`; texts under 255 characters name the row or argument
+        and the limit.
+    """
+
+    ok: np.ndarray
+    problems: list
+
+    @property
+    def message(self):
+        """The first two problem texts joined (a cell's error message)."""
+        return "; ".join(text for _, text in self.problems[:2])
+
+
+def cavity_limits(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                  convention="circuit", resonance="hot", depression="none"):
+    """Validity limits of the small-signal (and any table-fed) klystron model.
+
+    Parameters
+    ----------
+    frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `small_signal_gain`. [Hz, V, A, m, m, table]
+    convention, resonance, depression : str, optional
+        As in `small_signal_gain`.
+
+    Returns
+    -------
+    CavityLimits
+        ``ok`` mask over the broadcast numeric arguments and the first
+        problem of each kind.  A table with problems of its own
+        (`table_problems`) gives ``ok`` all True and no problems here: those
+        are reported by `table_problems`.
+
+    Notes
+    -----
+    Limits (each an error, never a number):
+
+    - overlap: neighbouring gaps, each widened by its fringing field, must
+      not overlap: spacing >= (d_k + d_{k+1})/2 + a.  The gap field leaks into
+      the tunnel as exp(-2.405 |z|/a); one tunnel radius between the gap
+      edges (the field down to about 10 % from each side) is the margin;
+    - cutoff: the tunnel must not propagate at the signal frequency,
+      2 pi f a/c < 2.405 (TM01 cutoff of a round guide); above it the gridless
+      gap field is not confined and the coupling model fails;
+    - current: I0 below the space-charge limiting current
+      (`tubefuncs.physics.optics.limiting_current`, cathode voltage);
+    - conductance: 1/Q0 + 1/Qext + (R/Q) G_B > 0 for every cavity, G_B the
+      space-charge beam-loading conductance; a negative net conductance means
+      the beam drives the cavity into oscillation (a long gridless gap with a
+      transit angle beyond about 2 pi).
+
+    The lambda_q/2 spacing rule (`cavity_spacing_ok`) is a design rule, not a
+    validity limit, and is not checked here.  Another model fed by the same
+    table (e.g. a large-signal one) can call this function as it stands.
+    """
+    t, problem = _as_table(cavities)
+    if problem or table_problems(t):
+        shape = np.broadcast_shapes(*(np.shape(x) for x in (frequency, voltage, current,
+                                                           beam_radius, tunnel_radius)))
+        return CavityLimits(np.ones(shape, dtype=bool), [])
+    setup = _prepare(frequency, voltage, current, beam_radius, tunnel_radius, t, convention,
+                     resonance, depression)
+    return CavityLimits(_limits_ok(setup), _limit_texts(setup))
+
+
+def _limits_ok(setup):
+    shape = setup.beam.f.shape
+    ok = np.ones(shape, dtype=bool)
+    for kind in LIMIT_KINDS:
+        mask = setup.limits[kind]
+        if np.ndim(mask) > len(shape):
+            mask = np.all(mask, axis=0)
+        ok &= np.broadcast_to(mask, shape)
+    return ok
+
+
 def validate_cavities(cavities, frequency=None, voltage=None, current=None,
-                      beam_radius=None, tunnel_radius=None):
+                      beam_radius=None, tunnel_radius=None, convention="circuit",
+                      resonance="hot", depression="none"):
     """Problems of a cavity table, as short texts (empty list: none).
 
     Parameters
     ----------
     cavities : array_like, shape (n, 6)
         Cavity table (see the module help): position [m], resonant frequency
-        [Hz], R/Q [ohm, circuit], Q0 [1], Qext [1] (NaN = idle), gap length [m].
+        [Hz], R/Q [ohm], Q0 [1], Qext [1] (NaN = idle), gap length [m].
     frequency, voltage, current, beam_radius, tunnel_radius : numeric, optional
         Signal frequency [Hz], beam voltage [V], beam current [A], beam radius
         [m] and tunnel radius [m].  When all are given, the checks that need
-        the beam are made too: beam_radius <= tunnel_radius, and every cavity
-        within half a reduced plasma wavelength of the previous one.
+        the beam are made too: beam_radius <= tunnel_radius and the validity
+        limits of `cavity_limits`.
+    convention, resonance, depression : str, optional
+        As in `small_signal_gain`.
 
     Returns
     -------
@@ -232,42 +480,29 @@ def validate_cavities(cavities, frequency=None, voltage=None, current=None,
     The table alone is checked for: 6 columns; at least 2 rows; numbers in
     every cell except Qext; positions strictly increasing along the beam;
     resonant frequency, R/Q, Q0 and gap length > 0; Qext > 0 or empty; a
-    finite Qext on the input and the output cavity.
-
-    A cavity more than lambda_q/2 = u0/(2 f_q) downstream of the previous one
-    is a problem: the space-charge-wave current from the previous gap has
-    gone through a null and changed sign there, and such a layout is outside
-    what this small-signal model is meant to describe.  lambda_q depends on
-    the frequency; the first offending frequency is reported.
+    finite Qext on the input and the output cavity.  With the beam, the
+    limits of `cavity_limits` (overlapping gaps, tunnel above cutoff, current
+    above the limiting current, negative net cavity conductance).
     """
     problems = [text for _, text in table_problems(cavities)]
     beam_args = (frequency, voltage, current, beam_radius, tunnel_radius)
     if problems or any(x is None for x in beam_args):
         return problems
-    t, _ = _as_table(cavities)
-    beam = _beam(*beam_args)
-    bad_radius = ~(beam.b <= beam.a)
+    b = np.asarray(beam_radius, dtype=float)
+    a = np.asarray(tunnel_radius, dtype=float)
+    bad_radius = ~(b <= a)
     if np.any(bad_radius):
+        b, a = np.broadcast_arrays(b, a)
         k = np.flatnonzero(bad_radius.ravel())[0]
-        problems.append(f"beam_radius must be <= tunnel_radius (got {beam.b.ravel()[k]:g} m > "
-                        f"{beam.a.ravel()[k]:g} m)")
+        problems.append(f"beam_radius must be <= tunnel_radius (got {b.ravel()[k]:g} m > "
+                        f"{a.ravel()[k]:g} m)")
         return problems
-    f = beam.f
-    with np.errstate(invalid="ignore", divide="ignore"):
-        half_lq = 0.5 * beam.u0 / beam.f_q
-    gaps = np.diff(t[:, POS])
-    for n, gap in enumerate(gaps, start=2):
-        far = gap > half_lq
-        if np.any(far):
-            k = np.flatnonzero(far.ravel())[0]
-            problems.append(
-                f"cavities row {n} is {gap:.4g} m from row {n - 1}, beyond half a reduced "
-                f"plasma wavelength ({half_lq.ravel()[k]:.4g} m at {f.ravel()[k]:.6g} Hz)")
-    return problems
+    limits = cavity_limits(*beam_args, cavities, convention, resonance, depression)
+    return problems + [text for _, text in limits.problems]
 
 
 def cavity_spacing_ok(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
-    """Whether every cavity lies within lambda_q/2 of the previous one.
+    """Design rule: whether every cavity lies within lambda_q/2 of the previous one.
 
     Parameters
     ----------
@@ -280,8 +515,14 @@ def cavity_spacing_ok(frequency, voltage, current, beam_radius, tunnel_radius, c
     -------
     ndarray of bool
         False where some cavity is more than u0/(2 f_q) downstream of the
-        previous one at that frequency; True elsewhere, including where the
-        table or the beam has another problem (reported by the other checks).
+        previous one at that frequency; True elsewhere.
+
+    Notes
+    -----
+    A design rule, not a validity limit: beyond lambda_q/2 the current
+    launched by the previous gap has passed its maximum at lambda_q/4 and a
+    null, which wastes drift length, but the linear theory still holds.  The
+    gain functions do not use it.
     """
     t, problem = _as_table(cavities)
     beam = _beam(frequency, voltage, current, beam_radius, tunnel_radius)
@@ -361,7 +602,7 @@ def _beam_conductance(modulated_g0, beta_e, m_fast, m_slow, beta_q):
     return modulated_g0 * beta_e * (m_fast**2 - m_slow**2) / (4.0 * beta_q)
 
 
-def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow):
+def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow, y_beam=None):
     """Gap voltages of the cavity chain for 1 W of available drive power.
 
     Parameters
@@ -375,6 +616,9 @@ def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow):
     m_fast, m_slow : ndarray, shape (n,) + S
         Coupling of each gap to the fast and the slow space-charge wave,
         i.e. at the wave numbers beta_e - beta_q and beta_e + beta_q. [1]
+    y_beam : ndarray, complex, shape (n,) + S, optional
+        Beam-loading admittance of each gap (circuit R/Q table) [S]; by
+        default the conductance `_beam_conductance` alone (hot frequencies).
 
     Returns
     -------
@@ -392,13 +636,15 @@ def _chain(frequency, u0, modulation, g0, beta_q, table, m_fast, m_slow):
     beta_e = TWO_PI * frequency / u0
     kg0 = modulation * g0
 
-    # Beam-loading conductance, space-charge form [3]
-    g_beam = _beam_conductance(kg0, beta_e, m_fast, m_slow, beta_q)
+    # Beam-loading conductance, space-charge form [3] (plus the susceptance for
+    # cold-test frequencies, `tubefuncs.physics.loading`)
+    if y_beam is None:
+        y_beam = _beam_conductance(kg0, beta_e, m_fast, m_slow, beta_q)
 
     # Cavity impedance, parallel resonant circuit [5], circuit R/Q:
-    # Z = (R/Q) / (1/Q0 + 1/Qext + (R/Q) G_B + j (f/f0 - f0/f))
+    # Z = (R/Q) / (1/Q0 + 1/Qext + (R/Q) (G_B + j B_B) + j (f/f0 - f0/f))
     detune = frequency / f0 - f0 / frequency
-    z_cav = rq / (1.0 / q0 + inv_qext + rq * g_beam + 1j * detune)
+    z_cav = rq / (1.0 / q0 + inv_qext + rq * y_beam + 1j * detune)
 
     # Transadmittance gap k -> gap n, a distance L = zeta_n - zeta_k downstream:
     # the gap launches a fast and a slow space-charge wave (beta_e -/+ beta_q),
@@ -457,7 +703,8 @@ class SmallSignalResponse:
         return np.degrees(np.angle(self.transfer))[()]
 
 
-def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                          convention="circuit", resonance="hot", depression="none"):
     """Complex small-signal response of a multi-cavity klystron.
 
     Parameters
@@ -476,6 +723,21 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
         Cavity table, input first, output last: position [m], resonant
         frequency [Hz], R/Q [ohm, circuit convention], Q0, Qext (NaN, inf or
         huge: idle cavity), gap length [m].  See the module help.
+    convention : str, optional
+        Convention of the R/Q column: "circuit" (default, V^2/(2 omega W)) or
+        "accelerator" (V^2/(omega W); "linac" accepted).  Eigenmode solvers
+        often report the accelerator value, twice the circuit one.
+    resonance : str, optional
+        What the resonant-frequency column holds: "hot" (default), the
+        beam-loaded frequencies; or "cold", cold-test frequencies (what a
+        cavity measurement gives): the beam-loading susceptance B_B of each
+        gap is then added to its cavity (`tubefuncs.physics.loading`), which
+        moves each resonance to its beam-loaded value at every frequency.
+    depression : str, optional
+        "none" (default): the beam kinematics use the cathode voltage;
+        "mean": they use the beam-averaged kinetic voltage after the
+        space-charge potential depression
+        (`tubefuncs.physics.optics.depressed_voltage`).
 
     Returns
     -------
@@ -502,10 +764,11 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
     - Sign convention: phasors e^{j omega t}; V_k is the gap voltage that
       accelerates electrons, the current is e times the electron flux.  Then
       Y_kn carries +j (ballistically the bunch current lags the modulating
-      voltage by theta0 + 90 deg [4]) and V_n = -Z_n sum_k Y_kn V_k (the
-      cavity voltage decelerates the bunch that drives it).  A consequence: an
-      intermediate cavity tuned above the signal (inductive) adds in phase
-      with the direct modulation from the cavities before it.
+      voltage by theta0 - 90 deg [4], since j e^{-j theta0} = e^{-j(theta0 - 90 deg)})
+      and V_n = -Z_n sum_k Y_kn V_k (the cavity voltage decelerates the bunch
+      that drives it).  A consequence: an intermediate cavity tuned above the
+      signal (inductive) adds in phase with the direct modulation from the
+      cavities before it.
     - Each gap launches a fast and a slow space-charge wave (wave numbers
       beta_e -/+ beta_q) and couples to each with the gridless-gap RMS
       coefficient M taken at that wave number (`wave_coupling`) [2].  The
@@ -527,9 +790,10 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
       the space-charge form of [3] with the relativistic factor, consistent
       with the transadmittance above (it reduces to the kinematic
       gridded-gap result -(theta/2) kappa G0 dM^2/dtheta as f_q -> 0 with grids).
-      The beam-loading *susceptance* is not modelled: it only shifts a
-      cavity's resonance slightly, so the table's resonant frequency is
-      read as the beam-loaded ("hot") one.
+      The beam-loading susceptance B_B shifts each resonance: by default the
+      table's resonant frequencies are read as the beam-loaded ("hot")
+      ones; with resonance="cold" they are cold-test frequencies and
+      j B_B joins each cavity's admittance.
     - Input: a matched driver of available power P behind the input
       cavity's external coupling is a Norton current sqrt(8 P G_ext),
       G_ext = 1/((R/Q) Qext), so V_1 = 2 Q_L sqrt(2 (R/Q) P/Qext)/(1 + j Q_L
@@ -545,45 +809,37 @@ def small_signal_response(frequency, voltage, current, beam_radius, tunnel_radiu
 
     NaN where: frequency <= 0, voltage <= 0, current <= 0, beam_radius <= 0,
     beam_radius > tunnel_radius, f_q >= f (no fast space-charge wave), the
-    fast wave faster than light (f_q/f > 1 - u0/c, see `wave_coupling`), or a
-    cavity lies more than lambda_q/2 = u0/(2 f_q) downstream of the previous
-    one at that frequency; everywhere if `validate_cavities` finds a table
-    problem.
+    fast wave faster than light (f_q/f > 1 - u0/c, see `wave_coupling`),
+    where a validity limit of `cavity_limits` fails (overlapping gaps, tunnel
+    above the TM01 cutoff, current above the limiting current, a cavity with
+    negative net conductance), or, with depression="mean", no depressed
+    solution; everywhere if `validate_cavities` finds a table problem.  The
+    lambda_q/2 spacing rule is a design rule and is not enforced.
     """
-    beam = _beam(frequency, voltage, current, beam_radius, tunnel_radius)
-    f, v, i, b, a, u0, ok = beam.f, beam.v, beam.i, beam.b, beam.a, beam.u0, beam.ok
-    shape = f.shape
     t, problem = _as_table(cavities)
     if problem or table_problems(t):
-        nan = np.full(shape, np.nan)
+        shape = np.broadcast_shapes(*(np.shape(x) for x in (frequency, voltage, current,
+                                                           beam_radius, tunnel_radius)))
         n = t.shape[0] if t is not None else 0
         return SmallSignalResponse(np.full((n,) + shape, np.nan, dtype=complex),
-                                   nan + 0j)
-    nd = len(shape)
-    g = gamma(v)
-    modulation = 1.0 / (g * (g + 1.0))  # relativistic velocity modulation [6]
-    with np.errstate(invalid="ignore", divide="ignore"):
-        g0 = i / v
-        beta_e = TWO_PI * f / u0
-        beta_q = TWO_PI * beam.f_q / u0
-        # a cavity beyond lambda_q/2 from the previous one: beta_q L > pi
-        spacing = np.diff(t[:, POS]).max()
-        ok &= beta_q * spacing <= np.pi
-        # a vanishing plasma wave number is replaced by a tiny one, which avoids
-        # 0/0 and changes the results by about (1e-6 theta_0)^2/6 relative
-        beta_q = np.maximum(beta_q, _MIN_WAVE_STEP * beta_e)
-        gap_len = _column(t[:, GAP], nd)
-        m_fast = wave_coupling(f, gap_len, beta_e - beta_q, b, a)
-        m_slow = wave_coupling(f, gap_len, beta_e + beta_q, b, a)
-        ok &= np.all(np.isfinite(m_fast) & np.isfinite(m_slow), axis=0)
-        volts = _chain(f, u0, modulation, g0, beta_q, t, m_fast, m_slow)
+                                   np.full(shape, np.nan) + 0j)
+    setup = _prepare(frequency, voltage, current, beam_radius, tunnel_radius, t, convention,
+                     resonance, depression)
+    beam, t = setup.beam, setup.table
+    ok = beam.ok & _limits_ok(setup)
+    ok &= np.all(np.isfinite(setup.m_fast) & np.isfinite(setup.m_slow)
+                 & np.isfinite(setup.y_beam), axis=0)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        volts = _chain(beam.f, beam.u0, setup.modulation, setup.g0, setup.beta_q, t,
+                       setup.m_fast, setup.m_slow, setup.y_beam)
     volts = np.where(ok, volts, np.nan)
     # transfer = V_N sqrt(G_ext,N / 2) / sqrt(P_avail), P_avail = 1 W
     transfer = volts[-1] * np.sqrt(0.5 / (t[-1, RQ] * t[-1, QEXT]))
     return SmallSignalResponse(volts, transfer)
 
 
-def small_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def small_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                      convention="circuit", resonance="hot", depression="none"):
     """Small-signal power gain of a multi-cavity klystron.
 
     Parameters
@@ -601,6 +857,11 @@ def small_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, c
     cavities : array_like, shape (n, 6)
         Cavity table, input first: position [m], resonant frequency [Hz], R/Q
         [ohm, circuit], Q0, Qext (empty = idle), gap length [m].
+    convention, resonance, depression : str, optional
+        R/Q convention ("circuit" default, "accelerator"), what the frequency
+        column holds ("hot" default, "cold") and whether the kinematics use
+        the depressed voltage ("none" default, "mean"); see
+        `small_signal_response`.  Optional and last, in this order.
 
     Returns
     -------
@@ -620,15 +881,18 @@ def small_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, c
     [1]-[6] of the module.
     """
     return small_signal_response(frequency, voltage, current, beam_radius, tunnel_radius,
-                                 cavities).gain_db
+                                 cavities, convention, resonance, depression).gain_db
 
 
-def small_signal_phase(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def small_signal_phase(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                       convention="circuit", resonance="hot", depression="none"):
     """Small-signal phase of the output-gap voltage relative to the drive.
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `small_signal_gain`.
+    convention, resonance, depression : str, optional
         As in `small_signal_gain`.
 
     Returns
@@ -651,7 +915,7 @@ def small_signal_phase(frequency, voltage, current, beam_radius, tunnel_radius, 
     [1]-[6] of the module.
     """
     return small_signal_response(frequency, voltage, current, beam_radius, tunnel_radius,
-                                 cavities).phase_deg
+                                 cavities, convention, resonance, depression).phase_deg
 
 
 def bandwidth(frequency, gain_db, drop_db=1.0):
@@ -746,7 +1010,8 @@ def _band_width(sweep, beam_and_table, drop):
 
 
 def small_signal_bandwidth(voltage, current, beam_radius, tunnel_radius, cavities,
-                           drop_db=1.0):
+                           drop_db=1.0, convention="circuit", resonance="hot",
+                           depression="none"):
     """Bandwidth around the small-signal gain peak, within ``drop_db`` of the peak.
 
     Parameters
@@ -764,6 +1029,8 @@ def small_signal_bandwidth(voltage, current, beam_radius, tunnel_radius, cavitie
     drop_db : numeric, optional
         Drop below the peak gain that bounds the band, > 0 (1 dB by default).
         [dB]
+    convention, resonance, depression : str, optional
+        As in `small_signal_gain` (after drop_db, in this order).
 
     Returns
     -------
@@ -804,5 +1071,86 @@ def small_signal_bandwidth(voltage, current, beam_radius, tunnel_radius, cavitie
     for idx in np.ndindex(out.shape):
         v, i, b, a, drop = (x[idx] for x in args)
         if drop > 0:
-            out[idx] = _band_width(sweep, (v, i, b, a, table), drop)
+            out[idx] = _band_width(sweep, (v, i, b, a, table, convention, resonance,
+                                           depression), drop)
     return out[()]
+
+
+#: Relative step of the central differences of the phase-pushing figures.
+_PUSH_STEP = 1e-5
+
+
+def _phase_derivative(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                      convention, resonance, depression, which):
+    args = [np.asarray(x, dtype=float) for x in (voltage, current)]
+    x = args[which]
+    h = _PUSH_STEP * x
+    up, down = list(args), list(args)
+    up[which] = x + h
+    down[which] = x - h
+    t_up = small_signal_response(frequency, up[0], up[1], beam_radius, tunnel_radius,
+                                 cavities, convention, resonance, depression).transfer
+    t_down = small_signal_response(frequency, down[0], down[1], beam_radius, tunnel_radius,
+                                   cavities, convention, resonance, depression).transfer
+    with np.errstate(invalid="ignore", divide="ignore"):
+        # arg(T+/T-) is the phase difference without wrapping
+        return (np.angle(t_up / t_down) / (2.0 * h))[()]
+
+
+def phase_per_volt(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                   convention="circuit", resonance="hot", depression="none"):
+    """Phase pushing by the beam voltage: d(output phase)/d(V0) at fixed current.
+
+    Parameters
+    ----------
+    frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `small_signal_gain`. [Hz, V, A, m, m, table]
+    convention, resonance, depression : str, optional
+        As in `small_signal_gain`.
+
+    Returns
+    -------
+    numeric
+        d phi/d V0 of `small_signal_phase` (radians here) at constant current.
+        [rad/V]  NaN where the gain model gives no result.
+
+    Notes
+    -----
+    Central difference of the complex transfer at V0 (1 +/- 1e-5), so the
+    phase is never unwrapped; the truncation error is about 1e-10 relative.
+    It is dominated by the transit delay: d(omega L/u0)/dV0 =
+    -(omega L/u0)/(V0 gamma (gamma + 1)) so the output phase *advances* as V0
+    rises, by theta0/(V0 gamma(gamma+1)) rad/V; the cavities and space charge
+    add to it.  The figure a modulator ripple budget needs: phase ripple =
+    this times the voltage ripple.  For a diode gun whose current follows
+    V0^1.5, add 1.5 (I0/V0) times `phase_per_ampere`.
+    """
+    return _phase_derivative(frequency, voltage, current, beam_radius, tunnel_radius,
+                             cavities, convention, resonance, depression, 0)
+
+
+def phase_per_ampere(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                     convention="circuit", resonance="hot", depression="none"):
+    """Phase pushing by the beam current: d(output phase)/d(I0) at fixed voltage.
+
+    Parameters
+    ----------
+    frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `small_signal_gain`. [Hz, V, A, m, m, table]
+    convention, resonance, depression : str, optional
+        As in `small_signal_gain`.
+
+    Returns
+    -------
+    numeric
+        d phi/d I0 at constant voltage. [rad/A]  NaN where the gain model
+        gives no result.
+
+    Notes
+    -----
+    Central difference as in `phase_per_volt`.  The current acts through the
+    plasma frequency (the phase of the fast/slow-wave sum), the beam loading
+    of every cavity and, with depression="mean", the depressed voltage.
+    """
+    return _phase_derivative(frequency, voltage, current, beam_radius, tunnel_radius,
+                             cavities, convention, resonance, depression, 1)

@@ -31,6 +31,8 @@ from ._domain import _domain_ok, _nan_where_invalid
 from .beam import beta, beta_gamma, gamma
 
 TWO_PI = 2.0 * np.pi
+#: First zero of J0: the TM01 cutoff of a round tunnel is at 2 pi f a / c = P01.
+P01 = 2.404825557695773
 _TWO_PI_OVER_C = TWO_PI / sc.c
 
 
@@ -126,8 +128,9 @@ def gap_coupling(frequency, gap_length, voltage, beam_radius=None, tunnel_radius
         theta the gap transit angle; it changes sign beyond theta = 2 pi.
         Gridless gap: the RMS coefficient over the beam cross-section, with the
         sign of the gridded factor.  NaN where frequency < 0, gap_length < 0,
-        voltage <= 0, beam_radius < 0, tunnel_radius <= 0 or
-        beam_radius > tunnel_radius.
+        voltage <= 0, beam_radius < 0, tunnel_radius <= 0,
+        beam_radius > tunnel_radius, or (gridless) a tunnel that propagates at
+        the frequency, 2 pi f a/c >= 2.405 (above the TM01 cutoff).
 
     Raises
     ------
@@ -200,7 +203,11 @@ def gap_coupling(frequency, gap_length, voltage, beam_radius=None, tunnel_radius
     # M^2/M_grid^2 = [I0^2(gb) - I1^2(gb)] / I0^2(ga), with I(x) = ie(x) e^x
     with np.errstate(invalid="ignore", over="ignore"):
         ratio = np.sqrt((i0b - i1b) * (i0b + i1b)) / special.i0e(ga) * np.exp(gb - ga)
-    ok = _domain_ok(nonnegative=(b,), positive=(a,)) & (b <= a)
+    # the gridless model needs a tunnel below the TM01 cutoff at f:
+    # 2 pi f a / c < 2.405 (above it the gap field propagates down the tunnel)
+    with np.errstate(invalid="ignore"):
+        below_cutoff = _TWO_PI_OVER_C * np.asarray(frequency, dtype=float) * a < P01
+    ok = _domain_ok(nonnegative=(b,), positive=(a,)) & (b <= a) & below_cutoff
     return _nan_where_invalid(m_grid * ratio, ok)
 
 

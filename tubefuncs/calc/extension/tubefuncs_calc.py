@@ -1,7 +1,7 @@
 """tubefuncs worksheet functions for LibreOffice Calc: the extension's UNO component.
 
 GENERATED FILE: do not edit.  Regenerate with: python -m tubefuncs.calc.generate
-55 catalogue functions plus TUBE_ERROR_TEXT.  Each method only calls
+67 catalogue functions plus TUBE_ERROR_TEXT.  Each method only calls
 tubefuncs.calc.adapter; this file runs inside LibreOffice's own Python, which
 finds numpy and tubefuncs through tubefuncs_paths.json (written beside this
 file by `tubefuncs calc-setup`) or the TUBEFUNCS_PYTHONPATH environment
@@ -149,8 +149,14 @@ class Functions(unohelper.Base, XFunctions, XServiceName, XServiceInfo):
     def TUBE_GAP_COUPLING(self, frequency, gapLength, voltage, beamRadius, tunnelRadius):
         return self._call("TUBE_GAP_COUPLING", (frequency, gapLength, voltage, beamRadius, tunnelRadius,))
 
-    def TUBE_BEAM_LOADING(self, frequency, gapLength, voltage, current, unit):
-        return self._call("TUBE_BEAM_LOADING", (frequency, gapLength, voltage, current, unit,))
+    def TUBE_BEAM_LOADING(self, frequency, gapLength, voltage, current, beamRadius, tunnelRadius, unit):
+        return self._call("TUBE_BEAM_LOADING", (frequency, gapLength, voltage, current, beamRadius, tunnelRadius, unit,))
+
+    def TUBE_BEAM_SUSCEPTANCE(self, frequency, gapLength, voltage, current, beamRadius, tunnelRadius, unit):
+        return self._call("TUBE_BEAM_SUSCEPTANCE", (frequency, gapLength, voltage, current, beamRadius, tunnelRadius, unit,))
+
+    def TUBE_BEAM_LOADED_FREQ(self, coldFrequency, rOverQ, gapLength, voltage, current, beamRadius, tunnelRadius, convention, unit):
+        return self._call("TUBE_BEAM_LOADED_FREQ", (coldFrequency, rOverQ, gapLength, voltage, current, beamRadius, tunnelRadius, convention, unit,))
 
     def TUBE_BUNCHING_PARAM(self, gapVoltage, frequency, driftLength, voltage, coupling):
         return self._call("TUBE_BUNCHING_PARAM", (gapVoltage, frequency, driftLength, voltage, coupling,))
@@ -185,14 +191,20 @@ class Functions(unohelper.Base, XFunctions, XServiceName, XServiceInfo):
     def TUBE_GAP_VOLTAGE(self, power, rOverQ, qLoaded, convention, unit):
         return self._call("TUBE_GAP_VOLTAGE", (power, rOverQ, qLoaded, convention, unit,))
 
-    def TUBE_SMALL_SIGNAL_GAIN(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities):
-        return self._call("TUBE_SMALL_SIGNAL_GAIN", (frequency, voltage, current, beamRadius, tunnelRadius, cavities,))
+    def TUBE_SMALL_SIGNAL_GAIN(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression):
+        return self._call("TUBE_SMALL_SIGNAL_GAIN", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression,))
 
-    def TUBE_SMALL_SIGNAL_PHASE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit):
-        return self._call("TUBE_SMALL_SIGNAL_PHASE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit,))
+    def TUBE_SMALL_SIGNAL_PHASE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit):
+        return self._call("TUBE_SMALL_SIGNAL_PHASE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit,))
 
-    def TUBE_SMALL_SIGNAL_BANDWIDTH(self, voltage, current, beamRadius, tunnelRadius, cavities, dropDb, unit):
-        return self._call("TUBE_SMALL_SIGNAL_BANDWIDTH", (voltage, current, beamRadius, tunnelRadius, cavities, dropDb, unit,))
+    def TUBE_SMALL_SIGNAL_BANDWIDTH(self, voltage, current, beamRadius, tunnelRadius, cavities, dropDb, convention, resonance, depression, unit):
+        return self._call("TUBE_SMALL_SIGNAL_BANDWIDTH", (voltage, current, beamRadius, tunnelRadius, cavities, dropDb, convention, resonance, depression, unit,))
+
+    def TUBE_PHASE_PER_VOLT(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit):
+        return self._call("TUBE_PHASE_PER_VOLT", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit,))
+
+    def TUBE_PHASE_PER_AMPERE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit):
+        return self._call("TUBE_PHASE_PER_AMPERE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit,))
 
     def TUBE_AVERAGE_POWER(self, peakPower, pulseWidth, prf, unit):
         return self._call("TUBE_AVERAGE_POWER", (peakPower, pulseWidth, prf, unit,))
@@ -268,6 +280,30 @@ class Functions(unohelper.Base, XFunctions, XServiceName, XServiceInfo):
 
     def TUBE_SATURATED_EFFICIENCY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities):
         return self._call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities,))
+
+    def TUBE_LIMITING_CURRENT(self, voltage, beamRadius, tunnelRadius, unit):
+        return self._call("TUBE_LIMITING_CURRENT", (voltage, beamRadius, tunnelRadius, unit,))
+
+    def TUBE_POTENTIAL_DEPRESSION(self, current, voltage, beamRadius, tunnelRadius, unit):
+        return self._call("TUBE_POTENTIAL_DEPRESSION", (current, voltage, beamRadius, tunnelRadius, unit,))
+
+    def TUBE_DEPRESSED_VOLTAGE(self, current, voltage, beamRadius, tunnelRadius, location, unit):
+        return self._call("TUBE_DEPRESSED_VOLTAGE", (current, voltage, beamRadius, tunnelRadius, location, unit,))
+
+    def TUBE_CONFINED_FLOW_FIELD(self, current, voltage, beamRadius, ratio, unit):
+        return self._call("TUBE_CONFINED_FLOW_FIELD", (current, voltage, beamRadius, ratio, unit,))
+
+    def TUBE_CATHODE_FLUX(self, current, voltage, beamRadius, ratio, unit):
+        return self._call("TUBE_CATHODE_FLUX", (current, voltage, beamRadius, ratio, unit,))
+
+    def TUBE_CATHODE_LOADING(self, current, beamRadius, convergence, unit):
+        return self._call("TUBE_CATHODE_LOADING", (current, beamRadius, convergence, unit,))
+
+    def TUBE_EFFICIENCY_ESTIMATE(self, perveance):
+        return self._call("TUBE_EFFICIENCY_ESTIMATE", (perveance,))
+
+    def TUBE_OPTIMUM_QEXT(self, power, gapVoltage, rOverQ, convention):
+        return self._call("TUBE_OPTIMUM_QEXT", (power, gapVoltage, rOverQ, convention,))
 
 
 g_ImplementationHelper = unohelper.ImplementationHelper()
