@@ -108,7 +108,8 @@ def run(repeats: int = 7, verbose: bool = True) -> dict:
         print("  low-drive gain - TUBE_SMALL_SIGNAL_GAIN, worst over 9 frequencies +-4 MHz: "
               + ", ".join(f"{n} cav {d:.3f} dB" for n, d in worst.items()))
         print(f"  energy balance (at/past saturation) {out['energy_rel']:.2e} of V0 I0")
-        print(f"  P_sat change 32 -> 96 disks, steps x2: {out['convergence_rel']:.2e}")
+        print("  P_sat change 48 -> 96 disks, 16 -> 24 harmonics, steps x2: "
+              f"{out['convergence_rel']:.2e}")
         print(f"  Webster peak |I1|/I0 {out['webster_peak']:.4f} (2 max J1 = "
               f"{out['webster_exact']:.4f})")
     return out

@@ -46,8 +46,9 @@ SAT_CHECKS = _TABLE_CHECKS + (
 
 NOTES = (
     "Model: relativistic one-dimensional disk model of the multi-cavity klystron in periodic "
-    "steady state (32 charge disks per RF period), confined flow, distance as the "
-    "independent variable; space charge from the Bessel-series Green's function of a solid "
+    "steady state (48 charge disks per RF period, 16 space-charge harmonics), confined "
+    "flow, distance as the independent variable; space charge from the Bessel-series "
+    "Green's function of a solid "
     "beam in a round tunnel with the relativistic contraction and its periodic images, "
     "scaled to the exact plasma-frequency reduction factor; gridless gap fields whose "
     "coupling at any disk velocity is that of TUBE_GAP_COUPLING; each cavity voltage solved "
@@ -80,8 +81,8 @@ def _sat_fn(name, func, unit, help_text, units=()):
         references=(REF_TIEN, REF_WEBBER, REF_BRANCH), category=CATEGORY, caution=CAUTION,
         checks=SAT_CHECKS, invalid_result=INVALID,
         notes="Saturation = the first maximum of the output power as the drive rises; "
-              "searched in batches (15 drives over 3.5 decades around the small-signal "
-              "estimate, 9 between the neighbours of the peak, a parabola in log drive). "
+              "searched in batches (11 drives over 2.5 decades around the small-signal "
+              "estimate, 7 between the neighbours of the peak, a parabola in log drive). "
               + NOTES,
         result_units=units)
 

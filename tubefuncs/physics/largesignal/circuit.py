@@ -70,7 +70,7 @@ def load_power(v, r_over_q, qext):
 
 def _as_matrix(c):
     """2x2 real matrix of multiplication by complex c, as (a, b, c, d) arrays."""
-    return [c.real, -c.imag, c.imag, c.real]
+    return [c.real.copy(), -c.imag, c.imag.copy(), c.real.copy()]
 
 
 def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter, admittance=None):
@@ -79,8 +79,9 @@ def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter, admittance=None):
     Parameters
     ----------
     gap_pass : callable
-        gap_pass(V) -> (I, state): the induced current for gap voltage V
-        (complex, shape (P,)) and the disk state after the gap.
+        gap_pass(V, rows=None) -> (I, state): the induced current for gap
+        voltage V (complex, shape (P,), or of the points ``rows`` only) and
+        the disk state after the gap.
     z_cav : ndarray, complex, shape (P,)
         Circuit impedance. [ohm]
     source : ndarray, complex, shape (P,)
@@ -118,41 +119,35 @@ def solve_gap(gap_pass, z_cav, source, v_scale, tol, max_iter, admittance=None):
     for _ in range(max_iter):
         if np.all(done):
             break
-        a, b, c, d = jac
+        rows = np.flatnonzero(~done)  # only the points still moving are pushed again
+        a, b, c, d = (m[rows] for m in jac)
+        xr, rr, zr = x[rows], r[rows], z_cav[rows]
         det = a * d - b * c
         with np.errstate(invalid="ignore", divide="ignore"):
-            dx_re = -(d * r.real - b * r.imag) / det
-            dx_im = -(-c * r.real + a * r.imag) / det
+            dx_re = -(d * rr.real - b * rr.imag) / det
+            dx_im = -(-c * rr.real + a * rr.imag) / det
         dx = dx_re + 1j * dx_im
-        dx = np.where(np.isfinite(dx) & ~done, dx, 0.0)
-        new = x + dx
+        dx = np.where(np.isfinite(dx), dx, 0.0)
+        new = xr + dx
         # keep trial voltages within a few beam voltages (beyond, every disk stalls)
-        big = np.abs(new) > 4.0 * v_scale
-        new = np.where(big, new / np.abs(np.where(big, new, 1.0)) * 4.0 * v_scale, new)
-        dx = new - x
-        cur_new, state_new = gap_pass(new)
-        r_new = new - z_cav * (source - cur_new)
+        vmax = 4.0 * v_scale[rows]
+        big = np.abs(new) > vmax
+        new = np.where(big, new / np.abs(np.where(big, new, 1.0)) * vmax, new)
+        dx = new - xr
+        cur_new, part = gap_pass(new, rows=rows)
+        r_new = new - zr * (source[rows] - cur_new)
         # Broyden update J += (dr - J dx) dx^T / |dx|^2
-        dr = r_new - r
+        dr = r_new - rr
         jdx_re = a * dx.real + b * dx.imag
         jdx_im = c * dx.real + d * dx.imag
         norm = np.abs(dx) ** 2
         with np.errstate(invalid="ignore", divide="ignore"):
             u_re = np.where(norm > 0, (dr.real - jdx_re) / norm, 0.0)
             u_im = np.where(norm > 0, (dr.imag - jdx_im) / norm, 0.0)
-        jac = [a + u_re * dx.real, b + u_re * dx.imag, c + u_im * dx.real, d + u_im * dx.imag]
-        x, r, cur = np.where(done, x, new), np.where(done, r, r_new), np.where(done, cur, cur_new)
-        state = _merge(state, state_new, done)
+        for m, upd in zip(jac, (a + u_re * dx.real, b + u_re * dx.imag,
+                                c + u_im * dx.real, d + u_im * dx.imag)):
+            m[rows] = upd
+        x[rows], r[rows], cur[rows] = new, r_new, cur_new
+        state.put(rows, part)
         done = np.abs(r) <= tol * np.abs(x) + floor
     return x, cur, state, done
-
-
-def _merge(old, new, keep_old):
-    """Disk state taking ``old`` where keep_old, else ``new``."""
-    if not np.any(keep_old):
-        return new
-    new.phi = np.where(keep_old[:, None], old.phi, new.phi)
-    new.gam = np.where(keep_old[:, None], old.gam, new.gam)
-    new.low = np.where(keep_old, old.low, new.low)
-    new._inv_v = None
-    return new

@@ -40,7 +40,7 @@ from scipy import constants as sc
 from ..beam import REST_VOLTAGE
 
 #: Kinetic energy, relative to the DC one, below which a disk counts as stalled.
-STALL_FRACTION = 0.02
+STALL_FRACTION = 0.005
 
 
 def initial_phases(points, disks):
@@ -104,6 +104,20 @@ class Beam:
         new.low = self.low.copy()
         new._inv_v = None if self._inv_v is None else self._inv_v.copy()
         return new
+
+    def take(self, rows):
+        """The disks of the points ``rows`` only (a new Beam)."""
+        new = Beam(self.phi[rows], self.gam[rows], self.omega[rows], self.sc_weights[rows],
+                   self.current_scale[rows], self.kinetic0[rows])
+        new.low = self.low[rows]
+        return new
+
+    def put(self, rows, part):
+        """Overwrite the points ``rows`` with the Beam ``part`` (from `take`)."""
+        self.phi[rows] = part.phi
+        self.gam[rows] = part.gam
+        self.low[rows] = part.low
+        self._inv_v = None
 
     def step(self, dz, gap_field=None):
         """One leapfrog step of length dz.

@@ -46,6 +46,8 @@ _J01 = 2.404825557695773
 
 #: Gap voltage of the small-signal probe of each gap, relative to the beam voltage.
 _LINEAR_PROBE = 1e-6
+#: Disks of that probe (linear response: the fundamental only).
+_PROBE_DISKS = 4
 
 #: Status codes of an operating point.
 OK, BAD_INPUT, STALLED, NO_CONVERGENCE, ENERGY, PROPAGATING, LIMITING, OVERLAP = range(8)
@@ -64,8 +66,8 @@ class Accuracy:
     max_iter : most gap passes per cavity.
     """
 
-    disks: int = 32
-    harmonics: int = 12
+    disks: int = 48
+    harmonics: int = 16
     gap_steps: float = 32.0
     drift_steps_plasma: float = 48.0
     drift_steps_wave: float = 2.0
@@ -122,7 +124,7 @@ def status_text(status, cavity):
         OK: None,
         BAD_INPUT: "inputs outside the model's domain",
         STALLED: (f"{where}: electrons stall or turn back (kinetic energy below "
-                  "2 % of the DC value); the drive or the gap voltage is too high "
+                  "0.5 % of the DC value); the drive or the gap voltage is too high "
                   "for this model"),
         NO_CONVERGENCE: f"{where}: the gap voltage did not converge (self-consistent solve)",
         ENERGY: f"{where}: energy balance missed by more than 1e-3 of the beam power",
@@ -323,12 +325,16 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
         entry = beam
 
         def gap_pass(volt, entry=entry, gmid=gmid, dz=dz, steps=steps, mids=mids,
-                     rec=False):
-            state = entry.copy()
-            induced = np.zeros(n_pts, dtype=complex)
+                     rec=False, rows=None):
+            # rows: only these points (the others have converged); volt is theirs
+            if rows is None:
+                state, g = entry.copy(), gmid
+            else:
+                state, g = entry.take(rows), gmid[rows]
+            induced = np.zeros(len(volt), dtype=complex)
             for m in range(steps):
-                sums = state.step(dz, volt * gmid[:, m])
-                induced += gmid[:, m] * dz * np.conj(sums[:, 0])
+                sums = state.step(dz, volt * g[:, m])
+                induced += g[:, m] * dz * np.conj(sums[:, 0])
                 if rec:
                     keep(mids[m] + 0.5 * dz, state)
             return induced * state.current_scale, state
@@ -336,9 +342,12 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
         # the table's resonant frequency is the beam-loaded ("hot") one, as in
         # TUBE_SMALL_SIGNAL_GAIN: the small-signal beam-loading susceptance of the
         # gap, found from a pass of an unmodulated beam, is taken out of the circuit
-        fresh_beam = Beam(initial_phases(n_pts, acc.disks),
-                          np.repeat(g0[:, None], acc.disks, axis=1), omega[:, None],
-                          weights, 2.0 * i / acc.disks, kinetic0)
+        # (linear response of an unmodulated beam: the fundamental alone, which
+        # _PROBE_DISKS equally spaced disks carry exactly)
+        fresh_beam = Beam(initial_phases(n_pts, _PROBE_DISKS),
+                          np.repeat(g0[:, None], _PROBE_DISKS, axis=1), omega[:, None],
+                          weights[:, :1] * (acc.disks / _PROBE_DISKS),
+                          2.0 * i / _PROBE_DISKS, kinetic0)
         probe = _LINEAR_PROBE * v
         i_probe, _ = gap_pass(probe + 0j, entry=fresh_beam)
         susceptance = np.imag(i_probe / probe)

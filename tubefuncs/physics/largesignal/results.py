@@ -23,6 +23,7 @@ validity check and the computation share one run.
 
 from __future__ import annotations
 
+import dataclasses
 from collections import OrderedDict
 
 import numpy as np
@@ -272,9 +273,11 @@ def spent_beam_max_energy(frequency, voltage, current, beam_radius, tunnel_radiu
 # ---------------------------------------------------------------------------
 
 #: Coarse drive grid, decades around the small-signal estimate of the saturation drive.
-_COARSE = np.linspace(-1.5, 2.0, 15)
+_COARSE = np.linspace(-1.0, 1.5, 11)
+#: Tolerance of the gap voltages on the search grids.
+_SEARCH_TOL = 1e-4
 #: Points of the refined grid between the neighbours of the coarse maximum.
-_FINE = 9
+_FINE = 7
 
 
 class Saturation:
@@ -324,9 +327,11 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
                         1e-5 * np.where(p_beam > 0, p_beam, 1.0))
     estimate = np.where(np.isfinite(estimate) & (estimate > 0), estimate, 1.0)
     expand = tuple(x[..., None] for x in beam)
-    # 1. coarse grid, 3.5 decades
+    # the search grids need the gap voltages to 1e-4 only (the final solve is at full accuracy)
+    search = dataclasses.replace(accuracy, tol=max(accuracy.tol, _SEARCH_TOL))
+    # 1. coarse grid, 2.5 decades
     drives = estimate[..., None] * 10.0 ** _COARSE
-    coarse = solve_cached(*expand, table, drives, accuracy)
+    coarse = solve_cached(*expand, table, drives, search)
     p = np.where(coarse.ok, coarse.load_power[-1], np.nan)
     k, found = _first_peak(p)
     # 2. fine grid between the coarse neighbours of the peak
@@ -334,7 +339,7 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
     lo = np.take_along_axis(drives, np.maximum(k - 1, 0)[..., None], axis=-1)
     hi = np.take_along_axis(drives, np.minimum(k + 1, n - 1)[..., None], axis=-1)
     fine_drives = lo * (hi / lo) ** np.linspace(0.0, 1.0, _FINE)
-    fine = solve_cached(*expand, table, fine_drives, accuracy)
+    fine = solve_cached(*expand, table, fine_drives, search)
     pf = np.where(fine.ok, fine.load_power[-1], np.nan)
     j = np.nanargmax(np.where(np.isfinite(pf), pf, -np.inf), axis=-1)
     j = np.clip(j, 1, _FINE - 2)
@@ -420,8 +425,8 @@ def saturated_power(frequency, voltage, current, beam_radius, tunnel_radius, cav
 
     Notes
     -----
-    The drive is searched in batches: 15 drives over 3.5 decades around the
-    small-signal estimate 0.5 V0 I0 / G, then 9 drives between the
+    The drive is searched in batches: 11 drives over 2.5 decades around the
+    small-signal estimate 0.5 V0 I0 / G (0.1 to 30 times it), then 7 drives between the
     neighbours of the first maximum, then a parabola in log(drive) and a
     final solve at its vertex.
     """
