@@ -347,3 +347,75 @@ def test_recalc_on_dask_gives_the_default_answers(tmp_path):
     assert default.values.keys() == on_dask.values.keys()
     assert all(repr(default.values[k]) == repr(on_dask.values[k]) for k in default.values)
     assert default.messages == on_dask.messages
+
+
+def test_large_signal_functions_default_to_processes_and_small_chunks():
+    from tubefuncs.catalogue import CATALOGUE
+    from tubefuncs.sweeps import default_scheduler
+
+    slow = [name for name, fn in CATALOGUE.items() if fn.category == "Large signal"]
+    if not slow:
+        pytest.skip("the large-signal model is not in this catalogue")
+    raw = gain_study(points=100)
+    raw["results"] = {"p": {"function": "TUBE_OUTPUT_POWER"}}
+    raw["fixed"]["drive_power"] = "1 W"
+    del raw["limits"]
+    study = build_study(raw)
+    assert default_scheduler(study) == "processes" and study.chunk == 8
+    assert default_scheduler(build_study(grid_study())) == "threads"
+
+
+def test_workbook_sheet_with_a_cavity_range_and_per_result_arguments(tmp_path):
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Tolerances"
+    for row in [("sweep", "mode", None, "sample"), ("sweep", "points", None, 30),
+                ("sweep", "seed", None, 7),
+                ("results", "gain", "function", "TUBE_SMALL_SIGNAL_GAIN"),
+                ("results", "angle", "function", "TUBE_TRANSIT_ANGLE"),
+                ("results", "angle", "args.length", "11 mm"),
+                ("fixed", "frequency", None, "3.0 GHz"), ("fixed", "beam_radius", None, "4 mm"),
+                ("fixed", "tunnel_radius", None, "6 mm"),
+                ("fixed", "cavities", "range", "Cavities!A2:F7"),
+                ("tolerance", "voltage", "nominal", "90 kV"),
+                ("tolerance", "voltage", "normal", "0.3 kV"),
+                ("tolerance", "current", "nominal", "27 A"),
+                ("tolerance", "current", "uniform", "0.2 A"),
+                ("tolerance", "cavities.frequency", "normal", "1 MHz"),
+                ("tolerance", "cavities[1].r_over_q", "uniform", "3 %"),
+                ("limits", "gain", "min", 60.5)]:
+        ws.append(row)
+    cav = wb.create_sheet("Cavities")
+    cav.append(["position", "frequency", "R/Q", "Q0", "Qext", "gap"])
+    for row in CAVITIES:
+        cav.append(row)
+    path = tmp_path / "study.xlsx"
+    wb.save(path)
+    with pytest.raises(StudyError, match="no sheet 'study'"):
+        load_study(path)
+    from_sheet = run_sweep(load_study(path, sheet="Tolerances"), scheduler="sync").table
+    from_dict = run_sweep(build_study(gain_study(points=30)), scheduler="sync").table
+    assert from_sheet.equals(from_dict)
+
+
+def test_recalc_command_with_dask_option(tmp_path):
+    from headless_support import make_book
+
+    cells = {f"A{r}": f'=TUBE_TRANSIT_ANGLE("3 GHz","12 mm",{70e3 + r},"deg")'
+             for r in range(1, 40)}
+    path = make_book(tmp_path / "b.xlsx", {"S": cells})
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    outs = []
+    for extra in ([], ["--dask"]):
+        out = tmp_path / f"out{len(extra)}.xlsx"
+        run = subprocess.run([sys.executable, "-m", "tubefuncs", "recalc", str(path), "-o",
+                              str(out)] + extra, capture_output=True, text=True, env=env,
+                             timeout=120)
+        assert run.returncode == 0, run.stderr
+        import openpyxl
+
+        outs.append([c.value for c in openpyxl.load_workbook(out)["S"]["A"]])
+    assert outs[0] == outs[1] and outs[0][0] == pytest.approx(
+        transit_angle_deg(3e9, 12e-3, 70e3 + 1), rel=1e-12)

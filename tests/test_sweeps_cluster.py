@@ -50,7 +50,7 @@ def tolerance_raw(points, chunk):
 @pytest.fixture(scope="module")
 def cluster():
     with distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
-                                  host="127.0.0.1", dashboard_address=None,
+                                  host="127.0.0.1", dashboard_address="127.0.0.1:0",
                                   worker_dashboard_address=None) as lc:
         with distributed.Client(lc) as client:
             yield lc, client
@@ -79,7 +79,7 @@ def test_cluster_rows_equal_a_serial_run(cluster):
 
 def test_worker_killed_mid_sweep_loses_no_row(cluster, tmp_path):
     _, client = cluster
-    study = build_study(tolerance_raw(1200, 25))
+    study = build_study(tolerance_raw(800, 20))
     serial = run_sweep(study, scheduler="sync").table
     folder = tmp_path / "killed"
     box = {}
@@ -100,7 +100,7 @@ def test_worker_killed_mid_sweep_loses_no_row(cluster, tmp_path):
     assert result.failed_chunks == []
     assert len(list((folder / "chunks").glob("*.parquet"))) == study.n_chunks
     table = pq.read_table(result.files["parquet"])
-    assert table.num_rows == 1200 and table.equals(serial)
+    assert table.num_rows == 800 and table.equals(serial)
     client.wait_for_workers(2, timeout=60)
 
 
@@ -108,7 +108,7 @@ def test_interrupted_sweep_resumes_to_the_uninterrupted_rows(cluster, tmp_path):
     lc, client = cluster
     import json
 
-    raw = tolerance_raw(1200, 25)
+    raw = tolerance_raw(800, 20)
     study_file = tmp_path / "study.toml"
     study_file.write_text(_toml(raw))
     folder = tmp_path / "resumed"
@@ -132,7 +132,7 @@ def test_interrupted_sweep_resumes_to_the_uninterrupted_rows(cluster, tmp_path):
     assert uninterrupted.resumed_chunks == 0
     a = pq.read_table(resumed.files["parquet"])
     b = pq.read_table(uninterrupted.files["parquet"])
-    assert a.num_rows == 1200 and a.equals(b)
+    assert a.num_rows == 800 and a.equals(b)
     assert resumed.summary == uninterrupted.summary
     whole_csv = (tmp_path / "whole" / "results.csv").read_bytes()
     assert (folder / "results.csv").read_bytes() == whole_csv
@@ -157,3 +157,37 @@ def _toml(raw) -> str:
         for k, v in table.items():
             lines.append(f'"{k}" = {value(v)}')
     return "\n".join(lines) + "\n"
+
+
+def test_large_signal_sweep_on_worker_processes_equals_serial_and_each_point(cluster):
+    from tubefuncs import worksheet
+    from tubefuncs.catalogue import lookup
+    from tubefuncs.sweeps import default_scheduler
+
+    if lookup("TUBE_OUTPUT_POWER") is None:
+        pytest.skip("the large-signal model is not in this catalogue")
+    _, client = cluster
+    raw = {"sweep": {"mode": "grid", "chunk": 2},
+           "results": {"power": {"function": "TUBE_OUTPUT_POWER", "unit": "kW"}},
+           "fixed": {"frequency": "3.0 GHz", "current": "27 A", "beam_radius": "4 mm",
+                     "tunnel_radius": "6 mm", "cavities": CAVITIES},
+           "grid": {"voltage": ["88 kV", "90 kV"],
+                    "drive_power": ["10 mW", "1 W", "100 W"]}}   # 100 W: electrons turn back
+    study = build_study(raw)
+    assert study.slow and default_scheduler(study) == "processes"
+    serial = run_sweep(study, scheduler="sync").table
+    assert run_sweep(study, scheduler=client).table.equals(serial)
+    for row in serial.to_pylist():
+        try:
+            alone = worksheet.evaluate("TUBE_OUTPUT_POWER", [
+                3e9, row["voltage"], 27.0, 4e-3, 6e-3, CAVITIES, row["drive_power"], "kW"]).value
+        except worksheet.TubeInputError as exc:
+            assert row["power"] is None and row["power_error"] == exc.cell_text()
+            continue
+        assert row["power_error"] is None
+        # A chunk's points are one batch of the model, whose solution depends on the batch
+        # at the level of its own tolerance (energy balance within 1e-3 of the beam power):
+        # a point alone agrees to that level; the cluster run above equals the serial one
+        # exactly (same chunks).
+        assert row["power"] == pytest.approx(alone, rel=1e-3)
+    assert any(row["power_error"] for row in serial.to_pylist())

@@ -19,7 +19,7 @@ import numpy as np
 
 from .. import worksheet
 from ..errors import TubeInputError
-from .study import SLOW_FUNCTIONS
+from .study import is_slow
 
 MIN_ROWS = 20_000          # closed-form groups smaller than this stay in one call
 CHUNK_ROWS = 10_000
@@ -57,7 +57,7 @@ class _GroupEvaluator:
         for x in args:
             if isinstance(x, np.ndarray) and x.ndim == 2 and x.shape[1] == 1:
                 n = max(n, x.shape[0])
-        slow = name.upper() in SLOW_FUNCTIONS
+        slow = is_slow(name)
         if n < (2 if slow else self.min_rows):
             return worksheet.evaluate(name, args)
         size = max(1, -(-n // (4 * self.workers))) if slow else self.chunk_rows

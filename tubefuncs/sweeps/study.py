@@ -75,9 +75,18 @@ DEFAULT_CHUNK = 100_000          # vectorised kernels
 DEFAULT_CHUNK_PER_POINT = 200    # per-point kernels (cavity tables that vary, slow models)
 DEFAULT_QUANTILES = (0.01, 0.05, 0.25, 0.5, 0.75, 0.95, 0.99)
 SECTIONS = ("sweep", "results", "fixed", "grid", "tolerance", "limits", "summary")
-#: Functions known to cost a large fraction of a second per point (run in processes).
+#: Functions known to cost a large fraction of a second per point (run in processes);
+#: every function of the catalogue's large-signal category counts too (:func:`is_slow`).
 SLOW_FUNCTIONS = frozenset({"TUBE_OUTPUT_POWER", "TUBE_EFFICIENCY", "TUBE_SATURATED_POWER",
                             "TUBE_SATURATION_DRIVE"})
+SLOW_CATEGORIES = frozenset({"Large signal"})
+DEFAULT_CHUNK_SLOW = 8           # slow models: a chunk is seconds of work
+
+
+def is_slow(name: str) -> bool:
+    """True for the large-signal model (a fraction of a second or more per point)."""
+    fn = lookup(name)
+    return name.upper() in SLOW_FUNCTIONS or (fn is not None and fn.category in SLOW_CATEGORIES)
 
 
 class StudyError(ValueError):
@@ -295,8 +304,9 @@ def build_study(raw: dict, base_dir: str = ".", chunk: int | None = None) -> Stu
                            if p.name == v.param)
         if table_varies or fn.returns_text or fn.result_kind != "broadcast":
             per_point = True
-    slow = any(r.function in SLOW_FUNCTIONS for r in results)
-    default_chunk = DEFAULT_CHUNK_PER_POINT if (per_point or slow) else DEFAULT_CHUNK
+    slow = any(is_slow(r.function) for r in results)
+    default_chunk = (DEFAULT_CHUNK_SLOW if slow else DEFAULT_CHUNK_PER_POINT if per_point
+                     else DEFAULT_CHUNK)
     chunk_size = chunk if chunk is not None else sweep.get("chunk", default_chunk)
     chunk_size = _int(chunk_size, "sweep.chunk", 1, 10_000_000)
 
