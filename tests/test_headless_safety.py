@@ -621,3 +621,75 @@ def test_no_traceback_reaches_stderr_on_refused_inputs(tmp_path, book):
             assert p.returncode == 2, p.stderr
             assert len(p.stderr.strip().splitlines()) == 1, p.stderr
             assert "Traceback" not in p.stderr and "Exception ignored" not in p.stderr
+
+
+# ------------------------------------------------------------ names, position, depth
+
+def _values(capsys, path, tmp_path, engine):
+    import openpyxl
+
+    out = tmp_path / f"v-{engine}.xlsx"
+    code = cli.main(["recalc", str(path), "-o", str(out), "--engine", engine])
+    assert code == 0, capsys.readouterr()
+    ws = openpyxl.load_workbook(out).active
+    return {c.coordinate: c.value for row in ws.iter_rows() for c in row if c.value is not None}
+
+
+@pytest.mark.parametrize("engine", ["fast", "general"])
+def test_names_referring_to_each_other_are_a_circular_reference_at_once(tmp_path, capsys,
+                                                                         engine):
+    bad = make_book(tmp_path / "names.xlsx", {"S": {"A1": "=Vexa"}},
+                    names={"Vexa": "Wumbo+Wumbo+Wumbo+Wumbo", "Wumbo": "Vexa+Vexa+Vexa+Vexa"})
+    code, _, err, elapsed, _ = run_cli(capsys, "check", bad, "--engine", engine)
+    assert code == 2 and "circular reference through defined names" in err, err
+    assert elapsed < 5
+
+
+def test_a_long_chain_of_distinct_names_resolves_once_each(tmp_path, capsys):
+    names = {f"Nm{i}x": f"Nm{i + 1}x+Nm{i + 1}x+Nm{i + 1}x" for i in range(30)}
+    names["Nm30x"] = "1"
+    book = make_book(tmp_path / "chain.xlsx", {"S": {"A1": "=Nm0x"}}, names=names)
+    t = time.perf_counter()
+    assert _values(capsys, book, tmp_path, "general")["A1"] == 3.0 ** 30   # exact: 3^30
+    assert time.perf_counter() - t < 5
+
+
+@pytest.mark.parametrize("engine", ["fast", "general"])
+def test_names_are_evaluated_in_the_calling_cells_context(tmp_path, capsys, engine):
+    cells = {f"A{r}": "=Here" for r in range(1, 6)}
+    cells.update({f"B{r}": "=Dice" for r in range(1, 6)})
+    cells["C1"] = "=Dice-Dice"
+    book = make_book(tmp_path / "ctx.xlsx", {"S": cells},
+                     names={"Here": "ROW()*10", "Dice": "RAND()"})
+    got = _values(capsys, book, tmp_path, engine)
+    assert [got[f"A{r}"] for r in range(1, 6)] == [10, 20, 30, 40, 50]   # ROW() of the caller
+    rands = [got[f"B{r}"] for r in range(1, 6)]
+    assert len(set(rands)) == 5 and all(0 <= x < 1 for x in rands)     # a fresh RAND() per use
+    assert got["C1"] != 0
+
+
+@pytest.mark.parametrize("engine", ["fast", "general"])
+def test_position_only_functions_do_not_depend_on_values(tmp_path, capsys, engine):
+    cells = {"A1": "=ROW(A1)", "B1": "=SUM(ROW(B:B))", "C1": "=COLUMNS(A1:E1)+C2", "C2": 4,
+             **{f"D{r}": f"=ROW(D{r})*2" for r in range(1, 6)}}
+    got = _values(capsys, make_book(tmp_path / "pos.xlsx", {"S": cells}), tmp_path, engine)
+    assert got["A1"] == 1
+    assert got["B1"] == 1_048_576 * 1_048_577 // 2        # sum of 1..n = n(n+1)/2
+    assert got["C1"] == 9
+    assert [got[f"D{r}"] for r in range(1, 6)] == [2, 4, 6, 8, 10]
+
+
+@pytest.mark.parametrize("engine", ["fast", "general"])
+def test_deep_nesting_is_refused_per_cell_and_long_chains_compute(tmp_path, capsys, engine):
+    cells = {"A1": 1,
+             "A2": "=" + "(" * 500 + "A1" + ")" * 500,            # 500 levels
+             "A3": "=" + "SUM(" * 65 + "1" + ")" * 65,            # one over Excel's 64
+             "A4": "=" + "SUM(" * 64 + "1" + ")" * 64,            # at the limit
+             "A5": "=" + "-" * 3000 + "A1",
+             "A6": "=" + "+".join(["A1"] * 2700)}                 # a long run, no nesting
+    book = make_book(tmp_path / "deep.xlsx", {"S": cells})
+    got = _values(capsys, book, tmp_path, engine)
+    text = capsys.readouterr().out
+    assert "nested 500 levels deep" in text and "nested 65 levels deep" in text
+    assert got["A2"] == got["A3"] == got["A5"] == "#NAME?"
+    assert got["A4"] == 1 and got["A6"] == 2700

@@ -22,6 +22,10 @@ each run its own process, timed from outside with its peak memory
    so the general engine does every cell) against 10,000 of the same kind:
    time, peak memory and the cost per cell (target: within 1.5x, linear).
 
+Our processes run with compiled-module caches, as an installed package has
+them (kept in the temporary folder, never in the checkout); one extra row
+shows the first demo without them (``PYTHONDONTWRITEBYTECODE``).
+
 A demo workbook holds the values Excel-style applications cache; openpyxl
 writes none, so LibreOffice recalculates every formula on load (it does for
 files not last saved by itself).  LibreOffice is skipped with a visible reason
@@ -126,7 +130,11 @@ def build_distinct(path: str, cells: int) -> str:
 
 # ----------------------------------------------------------------------------- running
 
-def _measured(cmd, cwd=None) -> dict:
+#: Our processes' environment (set by :func:`main`).
+ENV = None
+
+
+def _measured(cmd, cwd=None, env=None) -> dict:
     """Run one whole process: wall time and the peak memory of just that process
     (a small wrapper process reports its only child's ``ru_maxrss``)."""
     wrapper = ("import resource, subprocess, sys, time; t=time.perf_counter(); "
@@ -135,7 +143,7 @@ def _measured(cmd, cwd=None) -> dict:
                "sys.stdout.write(f'{e} {resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss}"
                " {p.returncode}\\n'); sys.stderr.write(p.stderr.decode(errors='replace')[-800:])")
     done = subprocess.run([sys.executable, "-c", wrapper, *cmd], capture_output=True,
-                          text=True, cwd=cwd, timeout=3600)
+                          text=True, cwd=cwd, env=env, timeout=3600)
     try:
         s, kb, rc = done.stdout.split()
     except ValueError:
@@ -143,9 +151,18 @@ def _measured(cmd, cwd=None) -> dict:
     return {"s": float(s), "mb": int(kb) / 1024.0, "rc": int(rc), "err": done.stderr}
 
 
-def _env():
+def _env(tmp: str, bytecode: bool = True) -> dict:
+    """Our processes' environment: this checkout first on the path; with
+    ``bytecode``, compiled modules cached (in ``tmp``, never in the checkout), as
+    an installed package has them (pip compiles them at install time)."""
     env = dict(os.environ)
     env["PYTHONPATH"] = ROOT + os.pathsep + env.get("PYTHONPATH", "")
+    if bytecode:
+        env.pop("PYTHONDONTWRITEBYTECODE", None)
+        env["PYTHONPYCACHEPREFIX"] = os.path.join(tmp, "pycache")
+    else:
+        env["PYTHONDONTWRITEBYTECODE"] = "1"
+        env.pop("PYTHONPYCACHEPREFIX", None)
     return env
 
 
@@ -179,11 +196,11 @@ def _median(runs: list) -> dict:
 
 
 def side_by_side(label: str, our_cmd: list, calc: Calc, calc_path: str | None,
-                 repeat: int, rows: list) -> None:
+                 repeat: int, rows: list, env=None) -> None:
     """Alternate our run and LibreOffice's, ``repeat`` times each; append a row."""
     mine, theirs = [], []
     for _ in range(repeat):
-        mine.append(_measured(our_cmd, cwd=ROOT))
+        mine.append(_measured(our_cmd, cwd=ROOT, env=env or ENV))
         if calc.exe and calc_path:
             theirs.append(_measured(calc.command(calc_path)))
     a = _median(mine)
@@ -206,7 +223,8 @@ def _print_row(label, a, b) -> None:
 def distinct_case(tmp: str, cells: int, repeat: int) -> dict:
     path = build_distinct(os.path.join(tmp, f"distinct_{cells}.xlsx"), cells)
     out = os.path.join(tmp, f"distinct_{cells}_out.xlsx")
-    runs = [_measured(ours("recalc", path, "-o", out, "--engine", "general"), cwd=ROOT)
+    runs = [_measured(ours("recalc", path, "-o", out, "--engine", "general"), cwd=ROOT,
+                      env=ENV)
             for _ in range(repeat)]
     r = _median(runs)
     if r["rc"] != 0:
@@ -223,9 +241,10 @@ def main(argv=None) -> int:
     parser.add_argument("--quick", action="store_true",
                         help="demos and the small sweep only")
     args = parser.parse_args(argv)
-    os.environ.update(_env())
     rows = []
     with tempfile.TemporaryDirectory(prefix="tubefuncs-bench-") as tmp:
+        global ENV
+        ENV = _env(tmp)
         calc = Calc(tmp)
         if calc.reason:
             print(f"NOTE: {calc.reason}")
@@ -233,10 +252,20 @@ def main(argv=None) -> int:
               f"{os.getloadavg()[0]:.2f}; medians of {args.repeat} runs, ours and "
               f"LibreOffice alternating")
         calc.warm_up(os.path.join(WORKBOOKS, DEMOS[0]))
+        # warm-up: compiled-module caches for every path measured below
+        tiny = build_sweep(os.path.join(tmp, "tiny.xlsx"), 20)
+        for warm in (ours("check", os.path.join(WORKBOOKS, DEMOS[0])),
+                     ours("recalc", tiny, "-o", os.path.join(tmp, "tiny_out.xlsx")),
+                     ours("recalc", tiny, "-o", os.path.join(tmp, "tiny_out.xlsx"),
+                          "--engine", "general")):
+            _measured(warm, cwd=ROOT, env=ENV)
         print("1. cold check of the demo workbooks (target <= 0.5x)")
         for name in DEMOS:
             path = os.path.join(WORKBOOKS, name)
             side_by_side(f"check {name}", ours("check", path), calc, path, args.repeat, rows)
+        path = os.path.join(WORKBOOKS, DEMOS[0])
+        side_by_side(f"check {DEMOS[0]}, no bytecode cache", ours("check", path), calc, path,
+                     args.repeat, rows, env=_env(tmp, bytecode=False))
         sizes = [args.rows] + ([] if args.quick else [args.big_rows])
         for n in sizes:
             tube = build_sweep(os.path.join(tmp, f"sweep_{n}.xlsx"), n)
@@ -264,6 +293,11 @@ def main(argv=None) -> int:
                   f"{per_big * 1e6:.1f} us: {per_big / per_small:.2f}x (target <= 1.5x); "
                   f"memory per cell {(big['mb'] - base['mb']) * 1024 / args.distinct:.2f} KB")
     return 0
+
+
+def run() -> int:
+    """Entry for ``run_all.py``: the default figures."""
+    return main([])
 
 
 class _NoCalc:

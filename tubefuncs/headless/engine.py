@@ -17,7 +17,15 @@ from dataclasses import dataclass, field
 from openpyxl.utils.cell import coordinate_to_tuple
 
 from . import values as V
-from .evaluate import AreaOperand, Env, ErrorOperand, NameOperand, SequentialEvaluator, spill
+from .evaluate import (
+    AreaOperand,
+    Env,
+    ErrorOperand,
+    NameOperand,
+    SequentialEvaluator,
+    position_only,
+    spill,
+)
 from .formula import compile_formula
 from .gcpause import gc_paused
 from .graph import Graph
@@ -25,6 +33,13 @@ from .limits import DEFAULT_LIMITS, Limits
 from .loader import Book, load_book
 from .problems import WorkbookError
 from .references import area_text, cell_text, looks_like_name, parse_area, split_sheet
+
+#: A defined name deeper than this (a name defined by a name ...) is #NAME?.
+MAX_NAME_DEPTH = 100
+#: Functions whose value depends on the calling cell or the moment: a defined
+#: name using one is evaluated at every use, in the calling cell's context.
+HOST_FUNCTIONS = frozenset({"ROW", "COLUMN", "SINGLE", "RAND", "RANDBETWEEN", "NOW", "TODAY",
+                            "RANDARRAY"})
 
 
 @dataclass
@@ -119,6 +134,9 @@ class Plan:
         return ErrorOperand("#REF!", f"cannot read the reference {text!r}")
 
     def _name(self, name: str, scope, explicit_sheet: bool, depth: int):
+        """The operand of a defined name, resolved once per name (memoised) and
+        checked for cycles: names that refer to each other are a circular
+        reference, refused like one between cells."""
         upper = name.upper()
         key = (scope, upper) if (scope, upper) in self.book.names else (None, upper)
         if explicit_sheet and key[0] is None and (scope, upper) not in self.book.names:
@@ -127,8 +145,23 @@ class Plan:
             return ErrorOperand("#NAME?", f"undefined name {name}")
         if key in self._names:
             return self._names[key]
-        if depth > 20:
-            return ErrorOperand("#NAME?", f"name {name} refers to itself")
+        resolving = self.__dict__.setdefault("_resolving", [])
+        if key in resolving:
+            chain = [k[1] for k in resolving[resolving.index(key):]] + [upper]
+            raise WorkbookError(f"{self.book.path}: circular reference through defined names "
+                                f"{' -> '.join(chain[:8])}{' ...' if len(chain) > 8 else ''}")
+        if len(resolving) >= MAX_NAME_DEPTH:
+            return ErrorOperand("#NAME?", f"name {name}: defined names nested more than "
+                                          f"{MAX_NAME_DEPTH} deep")
+        resolving.append(key)
+        try:
+            operand = self._define(name, key, depth)
+        finally:
+            resolving.pop()
+        self._names[key] = operand
+        return operand
+
+    def _define(self, name: str, key, depth: int):
         definition = self.book.names[key].strip()
         if definition.startswith("="):
             definition = definition[1:]
@@ -136,14 +169,14 @@ class Plan:
         sheet_name, body = split_sheet(definition)
         area = parse_area(body.replace("$", ""), "")
         if sheet_name is not None and area is not None:
-            operand = self._operand(definition, home, depth + 1)
-        else:
-            # A name's expression is evaluated once, as an array (not per calling cell)
-            compiled, texts = compile_formula("=" + definition, array=True)
-            slots = [self._operand(t, home, depth + 1) for t in texts]
-            operand = NameOperand(name, compiled, slots)
-        self._names[key] = operand
-        return operand
+            return self._operand(definition, home, depth + 1)
+        # A name's expression is evaluated as an array (not intersected with the
+        # calling cell); once, unless it uses ROW(), RAND()...: then at every use.
+        compiled, texts = compile_formula("=" + definition, array=True)
+        slots = position_only(compiled, [self._operand(t, home, depth + 1) for t in texts])
+        per_use = bool(HOST_FUNCTIONS.intersection(compiled.functions)) or any(
+            getattr(sl, "per_use", False) for sl in slots)
+        return NameOperand(name, compiled, slots, per_use)
 
     # ------------------------------------------------------------- building
     def _build(self) -> None:
@@ -165,7 +198,7 @@ class Plan:
             if anchor not in graph.owner or graph.owner[anchor] != anchor:
                 continue  # inside another array formula's block
             compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
-            slots = [self._operand(t, anchor[0]) for t in texts]
+            slots = position_only(compiled, [self._operand(t, anchor[0]) for t in texts])
             self.cells[anchor] = (compiled, slots, block)
             self._note_names(anchor, compiled, slots)
             for slot in slots:

@@ -171,22 +171,63 @@ class ErrorOperand:
         return []
 
 
+class PositionOperand:
+    """A reference read only for its position or size (the argument of ROW,
+    COLUMN, ROWS, COLUMNS): it reads no value, so the formula does not depend on
+    the cells inside (``=ROW(A1)`` in A1 is not circular)."""
+
+    __slots__ = ("inner",)
+
+    def __init__(self, inner):
+        self.inner = inner
+
+    def value(self, env: Env):
+        return self.inner.value(env)
+
+    def reference(self, env: Env):
+        return self.inner.reference(env)
+
+    def areas(self):
+        return []
+
+    def __getattr__(self, name):      # (code that inspects the operand sees the inner one)
+        return getattr(self.inner, name)
+
+
+def position_only(compiled, slots: list) -> list:
+    """``slots`` with the position-only ones wrapped in :class:`PositionOperand`."""
+    if not compiled.position_only:
+        return slots
+    return [PositionOperand(sl) if i in compiled.position_only else sl
+            for i, sl in enumerate(slots)]
+
+
 class NameOperand:
-    """A defined name whose definition is a formula (a constant, or an expression)."""
+    """A defined name whose definition is a formula (a constant, or an expression).
 
-    __slots__ = ("name", "compiled", "slots", "_value")
+    Its value is kept after the first use unless ``per_use``: a name using ROW(),
+    COLUMN(), RAND(), NOW()... is evaluated at every use, in the calling cell's
+    context, as a spreadsheet application does.
+    """
 
-    def __init__(self, name, compiled, slots):
+    __slots__ = ("name", "compiled", "slots", "_value", "per_use", "_areas")
+
+    def __init__(self, name, compiled, slots, per_use: bool = False):
         self.name = name
         self.compiled = compiled
         self.slots = slots
         self._value = None
+        self.per_use = per_use
+        self._areas = None
 
     def value(self, env: Env):
-        if self._value is None:
+        if self._value is None or self.per_use:
             host = env.host
-            self._value = self.compiled.run(env, self.slots)
+            value = self.compiled.run(env, self.slots)
             env.host = host
+            if self.per_use:
+                return value
+            self._value = value
         return self._value
 
     def reference(self, env: Env):
@@ -195,7 +236,13 @@ class NameOperand:
         return self.value(env)
 
     def areas(self):
-        return [a for s in self.slots for a in s.areas()]
+        if self._areas is None:   # (once: names used several times in names stay linear)
+            seen = {}
+            for s in self.slots:
+                for a in s.areas():
+                    seen.setdefault(a, None)
+            self._areas = list(seen)
+        return self._areas
 
 
 def spill(result, block: Area):

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import functools
 import re
+import sys
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -46,6 +47,8 @@ class Compiled:
     functions: tuple = ()                          # every function name used
     problem: str = ""                              # parse error message, if any
     skeleton: tuple = field(default=(), repr=False)
+    #: slots read only for their position (ROW(A1), COLUMNS(A:C)): no dependency
+    position_only: frozenset = frozenset()
 
 
 # --------------------------------------------------------------------------- tokens
@@ -276,11 +279,47 @@ _UNARY = {"-": OPERATORS["U-"], "+": OPERATORS["U+"]}
 _PERCENT = OPERATORS["%"]
 
 
+#: Functions that read only the position and size of a reference, never its values.
+POSITION_FUNCTIONS = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS"})
+
+
+def nesting_depth(tokens) -> int:
+    """Deepest nesting of parentheses, function calls, array constants and signs
+    in a token list: each opening nests one level, and so does each prefix sign
+    stacked before an operand or an opening (``--A1`` is two levels)."""
+    depth = deepest = signs = 0
+    stack = []
+    for tok in tokens:
+        if tok.subtype == Token.OPEN:
+            stack.append(signs)
+            depth += 1 + signs
+            signs = 0
+        elif tok.subtype == Token.CLOSE:
+            depth -= 1 + (stack.pop() if stack else 0)
+            signs = 0
+        elif tok.type == Token.OP_PRE:
+            signs += 1
+        else:
+            signs = 0
+        deepest = max(deepest, depth + signs)
+    return deepest
+
+
+def _ref_slots(node, out: set) -> None:
+    """Slot numbers of the reference operands of a reference expression."""
+    if node[0] == "ref":
+        out.add(node[1])
+    elif node[0] == "bin" and node[1] in _REF_OPS:
+        _ref_slots(node[2], out)
+        _ref_slots(node[3], out)
+
+
 class _Compiler:
     def __init__(self):
         self.unknown = []
         self.catalogue = []
         self.functions = []
+        self.position_only = set()
 
     def value(self, node):
         kind = node[0]
@@ -307,6 +346,8 @@ class _Compiler:
             if op in _REF_OPS:
                 ref = self.reference(node)
                 return lambda env, slots: env.read_reference(ref(env, slots))
+            if node[2][0] == "bin" and node[2][1] not in _REF_OPS:
+                return self.chain(node)
             fn = OPERATORS[op]
             a, b = self.value(node[2]), self.value(node[3])
             return lambda env, slots: V.scalar(fn(a(env, slots), b(env, slots)))
@@ -316,6 +357,24 @@ class _Compiler:
                 return lambda env, slots: env.read_reference(ref(env, slots))
             return self.call(node[1], node[2])
         raise FormulaSyntaxError(f"cannot compile {kind}")  # pragma: no cover
+
+    def chain(self, node):
+        """``a+b-c*d+...``: a left-nested run of operators compiled into one loop
+        (no recursion: a formula of thousands of terms within Excel's length
+        limit compiles and runs without Python's recursion limit)."""
+        steps = []
+        while node[0] == "bin" and node[1] not in _REF_OPS:
+            steps.append((OPERATORS[node[1]], node[3]))
+            node = node[2]
+        first = self.value(node)
+        steps = [(fn, self.value(right)) for fn, right in reversed(steps)]
+
+        def run(env, slots):
+            acc = first(env, slots)
+            for fn, right in steps:
+                acc = V.scalar(fn(acc, right(env, slots)))
+            return acc
+        return run
 
     def reference(self, node):
         """Closure giving an Area, a list of Areas (union), or an error value."""
@@ -354,6 +413,9 @@ class _Compiler:
             return lambda env, slots: env.fail("#NAME?", message)
         if res.kind == "reference":
             name = res.target
+            if name in POSITION_FUNCTIONS:
+                for a in arg_nodes:
+                    _ref_slots(a, self.position_only)
             refs = [self.reference(a) if a[0] in ("ref", "bin") else self.value(a)
                     for a in arg_nodes]
             return lambda env, slots: reference_function(
@@ -411,8 +473,25 @@ def parse_tree(tokens_for_parse: tuple, array: bool = False):
     """Syntax tree of a formula shape, with the implicit intersections of a
     plain formula marked (:func:`.intersection.annotate`); raises
     :class:`FormulaSyntaxError`."""
+    from .limits import MAX_NESTING
+
     tokens = [Token(v, t, s) for v, t, s in tokens_for_parse]
-    return annotate(_Parser(tokens).parse(), array)
+    depth = nesting_depth(tokens)
+    if depth > MAX_NESTING:     # (checked before the recursive parser runs)
+        raise FormulaSyntaxError(
+            f"nested {depth} levels deep; the limit is {MAX_NESTING} levels of nested "
+            f"functions, parentheses and signs (Excel's own limit of nested functions)")
+    tree = _Parser(tokens).parse()
+    # A run of operators (``A1+A2+...``, thousands of terms within the length
+    # limit) is a tree as deep as it is long, while nesting is bounded above:
+    # the tree walks get the depth the length limit allows (pure Python calls,
+    # which take no C stack in Python 3.11+).
+    old = sys.getrecursionlimit()
+    sys.setrecursionlimit(max(old, 20_000))
+    try:
+        return annotate(tree, array)
+    finally:
+        sys.setrecursionlimit(old)
 
 
 @functools.lru_cache(maxsize=20_000)
@@ -424,12 +503,16 @@ def compile_skeleton(key: tuple, tokens_for_parse: tuple, array: bool = False) -
         tree = parse_tree(tokens_for_parse, array)
         comp = _Compiler()
         run = comp.value(tree)
+    except RecursionError:
+        problem = "cannot parse formula: nested too deeply"
+        return Compiled(_failing(problem), 0, problem=problem, skeleton=key)
     except (FormulaSyntaxError, KeyError, IndexError, ValueError) as exc:
         problem = f"cannot parse formula: {exc}"
         return Compiled(_failing(problem), 0, problem=problem, skeleton=key)
     slots = sum(1 for t in tokens if t.type == Token.OPERAND and t.subtype == Token.RANGE)
     return Compiled(run, slots, tuple(comp.unknown), tuple(comp.catalogue),
-                    tuple(comp.functions), skeleton=key)
+                    tuple(comp.functions), skeleton=key,
+                    position_only=frozenset(comp.position_only))
 
 
 def compile_formula(text: str, array: bool = False):

@@ -39,7 +39,7 @@ import numpy as np
 
 from .. import values as V
 from ..engine import Plan, Recalculation, recalculate_general
-from ..evaluate import AreaOperand, Env, ErrorOperand
+from ..evaluate import AreaOperand, Env, ErrorOperand, position_only
 from ..formula import compile_skeleton, parse_tree, skeleton, tokenize
 from ..gcpause import gc_paused
 from ..graph import Graph
@@ -261,6 +261,12 @@ class FastPlan(Plan):
             return
         compiled, tree, texts = shape
         slots = [_slot(self, t, group.sheet, group.rows[0]) for t in texts]
+        if any(getattr(sl.operand, "per_use", False) for sl in slots) or any(
+                self._reads_formulas(slots[i]) for i in compiled.position_only):
+            # (a name evaluated per use, in each cell's context; a ROW(...) over
+            # formula cells, which reads no value: cell by cell, without that edge)
+            self._split(group)
+            return
         if len(group.rows) > 1:
             row = group.rows[-1]
             other = _shape_of(sheet.formulas[(row, group.col)].text)
@@ -282,9 +288,21 @@ class FastPlan(Plan):
         try:
             group.program = Compiler(kinds).compile(tree)
             group.kind = "vector"
-        except NotVectorisable:
+        except (NotVectorisable, RecursionError):   # (a run of thousands of terms)
             group.kind = "general"
         self.stats[f"{group.kind} groups"] += 1
+
+    def _reads_formulas(self, slot) -> bool:
+        """True when a slot's area (at any row of its group) may hold formula cells."""
+        if slot.area is None:
+            return True
+        cols = self.__dict__.get("_formula_cols")
+        if cols is None:
+            cols = self._formula_cols = {(sh.index, c) for sh in self.book.sheets
+                                         for _, c in sh.formulas}
+        s = self.book.sheet(slot.area.sheet).index
+        c2 = min(slot.area.c2, slot.area.c1 + 64)
+        return slot.area.c2 > c2 or any((s, c) in cols for c in range(slot.area.c1, c2 + 1))
 
     def _split(self, group: Group) -> None:
         """The group's cells become single cells."""
@@ -298,7 +316,7 @@ class FastPlan(Plan):
         s, r, c = anchor
         cell = self.book.sheets[s].formulas[(r, c)]
         compiled, texts = compile_formula(cell.text, array=bool(cell.array_ref))
-        slots = [self._operand(t, s) for t in texts]
+        slots = position_only(compiled, [self._operand(t, s) for t in texts])
         self.cells[anchor] = (compiled, slots, self.blocks.get(anchor))
         self._note_names(anchor, compiled, slots)
 
