@@ -246,8 +246,16 @@ def _run_local(study, todo, folder, scheduler, workers, bar, tables):
     kwargs = {"scheduler": scheduler}
     if scheduler != "sync":
         kwargs["num_workers"] = workers or os.cpu_count() or 1
-    with Callback(posttask=posttask), _one_thread_per_process(scheduler == "processes"):
-        out = dask.compute(*tasks, **kwargs)
+    from concurrent.futures.process import BrokenProcessPool
+
+    try:
+        with Callback(posttask=posttask), _one_thread_per_process(scheduler == "processes"):
+            out = dask.compute(*tasks, **kwargs)
+    except BrokenProcessPool as exc:
+        raise SweepError(f"a worker process died ({exc}); the chunks written so far stay, "
+                         f"run again to resume. (From a Python script, start sweeps under "
+                         f"`if __name__ == \"__main__\":`, which worker processes need.)"
+                         ) from None
     if folder is None:
         tables.update(zip(todo, out))
 
