@@ -106,13 +106,13 @@ def dask_groups(scheduler: str | None = None, workers: int | None = None,
     if not local:
         from distributed import Client
 
-        from .runner import SweepError
+        from ..headless.problems import WorkbookError
 
         try:
             ev.client = Client(scheduler, timeout=10)
-        except (OSError, TimeoutError) as exc:
-            raise SweepError(f"cannot reach the dask scheduler at {scheduler!r}: "
-                             f"{exc}") from None
+        except (OSError, TimeoutError, ValueError) as exc:   # (recalc exits 2 with this)
+            raise WorkbookError(f"cannot reach the dask scheduler at {scheduler!r}: "
+                                f"{exc}") from None
     previous = program.group_evaluator
     program.group_evaluator = ev
     try:

@@ -261,7 +261,7 @@ def _run_distributed(study, todo, folder, scheduler, bar, tables, failed, window
     if own:
         try:
             client = Client(scheduler, timeout=10)
-        except (OSError, TimeoutError) as exc:
+        except (OSError, TimeoutError, ValueError) as exc:
             raise SweepError(f"cannot reach the dask scheduler at {scheduler!r}: "
                              f"{exc}") from None
     else:
