@@ -85,8 +85,11 @@ class _GroupEvaluator:
 
         scheduler = self.scheduler or ("processes" if slow else "threads")
         tasks = [dask.delayed(_call_chunk, pure=False)(name, p) for _, p in parts]
+        from .runner import _one_thread_per_process
+
         kwargs = {} if scheduler == "sync" else {"num_workers": self.workers}
-        return dask.compute(*tasks, scheduler=scheduler, **kwargs)
+        with _one_thread_per_process(scheduler == "processes"):
+            return dask.compute(*tasks, scheduler=scheduler, **kwargs)
 
 
 @contextlib.contextmanager
