@@ -346,3 +346,22 @@ def test_accelerator_convention_is_twice_the_circuit_r_over_q():
     a = tubefuncs.output_power(F, V0, I0, B, A, table, 300.0)
     b = tubefuncs.output_power(F, V0, I0, B, A, acc, 300.0, "accelerator")
     assert b == pytest.approx(a, rel=1e-12)
+
+
+def test_a_chain_that_does_not_amplify_has_no_saturation_point():
+    # Three cavities 0.25 m apart on a 50 kV, 10 A beam with an idler far off tune: the
+    # small-signal gain is about -0.2 dB.  Exact property of the definition (not a
+    # number): a chain with no gain has no saturation point of an amplifier, and the
+    # answer must not depend on what else is in the range (the overdriven curve of such
+    # a chain is erratic, so a maximum found on it changed with the batch's step grid).
+    table = [[0.0, 2.998e9, 100.0, 3000.0, 300.0, 0.012],
+             [0.25, 3.010e9, 100.0, 3000.0, 1e6, 0.012],
+             [0.5, 2.998e9, 100.0, 3000.0, 40.0, 0.012]]
+    beam = [50e3, 10.0, 0.005, 0.007, table]
+    with pytest.raises(TubeInputError) as err:
+        evaluate("TUBE_SATURATED_POWER", [3e9] + beam)
+    assert err.value.error_value == "#NUM!"
+    assert "does not amplify" in err.value.message
+    out = evaluate("TUBE_SATURATED_POWER", [[[3e9], [3.75e9]]] + beam)
+    assert np.all(np.isnan(out.value))
+    assert "does not amplify" in out.errors[(0, 0)].message

@@ -114,7 +114,8 @@ FUNCTIONS = [
     _sat_fn("TUBE_SATURATED_POWER", ls.saturated_power, "W",
             "Saturated RF output power of a multi-cavity klystron: the first maximum of the "
             "transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN)."
-            " Design estimate.", ("MW", "kW", "dBm", "dBW")),
+            " Needs a small-signal gain of at least 3 dB. Design estimate.",
+            ("MW", "kW", "dBm", "dBW")),
     _sat_fn("TUBE_SATURATION_DRIVE", ls.saturation_drive, "W",
             "Drive power (available from a matched generator) that saturates a multi-cavity "
             "klystron: the drive of the first maximum of the transfer curve.",

@@ -1013,7 +1013,7 @@ def TUBE_SPENT_BEAM_MAX_ENERGY(frequency, voltage, current, beam_radius, tunnel_
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default W). Optional. E.g. "MW", "kW", "dBm".')
 def TUBE_SATURATED_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
-    'Saturated RF output power of a multi-cavity klystron: the first maximum of the transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
+    'Saturated RF output power of a multi-cavity klystron: the first maximum of the transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN). Needs a small-signal gain of at least 3 dB. Design estimate.'
     return _call("TUBE_SATURATED_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
 
 

@@ -389,7 +389,11 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
     shift = np.clip(np.nan_to_num(shift), -h, h)
     drive = np.exp(xs[1] + shift)
     final = solve_cached(*beam, table, drive, *options, accuracy=accuracy)
-    power = np.where(final.ok & found, final.load_power[-1], np.nan)
+    # a chain that does not amplify has no saturation in the sense of the trade: its
+    # transfer curve turns over at a tiny fraction of the beam power and the overdriven
+    # curve beyond is erratic, so a "maximum" found there would be a plausible wrong number
+    amplifies = np.isfinite(g_ss) & (g_ss >= MIN_SATURATION_GAIN_DB)
+    power = np.where(final.ok & found & amplifies, final.load_power[-1], np.nan)
     # report why the curve has no peak: the failure met on the coarse grid
     status = final.status.copy()
     cavity = final.cavity.copy()
@@ -402,6 +406,8 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
         status = np.where(missing & has_bad, bad_status, status)
         cavity = np.where(missing & has_bad, bad_cav, cavity)
         status = np.where(missing & ~has_bad, _NO_PEAK, status)
+    weak = final.ok & np.isfinite(g_ss) & (g_ss < MIN_SATURATION_GAIN_DB)
+    status = np.where(weak, _NO_GAIN, status)
     final.status, final.cavity = status, cavity
     return Saturation(np.where(np.isfinite(power), drive, np.nan).reshape(shape),
                       power.reshape(shape), final)
@@ -409,6 +415,10 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
 
 #: Status of a transfer curve without a maximum on the searched grid.
 _NO_PEAK = 100
+#: Status of a chain whose small-signal gain is below `MIN_SATURATION_GAIN_DB`.
+_NO_GAIN = 101
+#: Least small-signal gain for which the saturation search runs [dB].
+MIN_SATURATION_GAIN_DB = 3.0
 
 _SAT_CACHE: OrderedDict = OrderedDict()
 _SAT_FAILED: OrderedDict = OrderedDict()
@@ -521,6 +531,9 @@ def saturated_efficiency(frequency, voltage, current, beam_radius, tunnel_radius
 # ---------------------------------------------------------------------------
 
 def _text(status, cavity):
+    if status == _NO_GAIN:
+        return (f"the small-signal gain is below {MIN_SATURATION_GAIN_DB:g} dB: the chain does "
+                "not amplify, so it has no saturation point")
     if status == _NO_PEAK:
         return ("the output power still rises at 30 times the small-signal saturation "
                 "estimate: no saturation found")
