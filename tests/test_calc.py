@@ -236,6 +236,20 @@ def test_bad_input_gives_real_error_values_with_the_message_reachable(battery):
     assert set(seen) == {"#VALUE!", "#NUM!"}, seen
 
 
+def test_function_wizard_shows_help_for_every_function_and_argument(calc):
+    from tubefuncs.calc.generate import ERROR_TEXT
+    from tubefuncs.excel.generate import argument_help
+
+    shown = calc.request({"op": "describe", "prefix": "TUBE_"})["functions"]
+    assert set(shown) == set(CATALOGUE) | {ERROR_TEXT}
+    for fn in CATALOGUE.values():
+        entry = shown[fn.name]
+        assert entry["description"].startswith(" ".join(fn.help.split())[:60]), fn.name
+        assert [a[0] for a in entry["arguments"]] == [p.name for p in fn.worksheet_params]
+        for p, (_, text, _optional) in zip(fn.worksheet_params, entry["arguments"]):
+            assert text == argument_help(fn, p), (fn.name, p.name)
+
+
 def test_messages_name_function_argument_and_value(calc):
     out = calc.cells([["B1", "formula", '=TUBE_ERROR_TEXT("TUBE_PILLBOX_FREQ";-0.5)'],
                       ["B2", "formula", '=TUBE_ERROR_TEXT("TUBE_PILLBOX_FREQ";"3 kg")'],

@@ -185,3 +185,60 @@ def test_deferred_statistics_functions_still_compute():
     assert seen["kurt"] == pytest.approx(stats.kurtosis(xs, fisher=True, bias=False), rel=1e-12)
     slope, intercept = np.polyfit(xs, ys, 1)          # least-squares line
     assert seen["forecast"] == pytest.approx(intercept + slope * 5.0, rel=1e-12)
+
+
+# ----------------------------------------------------------------------------- catalogue index
+
+def _catalogue_run(cache: str, code: str) -> dict:
+    env = dict(os.environ, XDG_CACHE_HOME=cache,
+               PYTHONPATH=ROOT + os.pathsep + os.environ.get("PYTHONPATH", ""))
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          cwd=ROOT, env=env, timeout=120)
+    assert done.returncode == 0, done.stderr
+    return json.loads(done.stdout.strip().splitlines()[-1])
+
+
+LOOKUP = (
+    "import json, sys\n"
+    "from tubefuncs.catalogue import lookup, names\n"
+    "from tubefuncs.headless.functions import resolve\n"
+    "fn = lookup('tube_beta')\n"
+    "kinds = [resolve(n).kind for n in ('TUBE_BETA', '_xludf.TUBE_FSPL', 'SUM')]\n"
+    "topics = sorted(m for m in sys.modules if m.startswith('tubefuncs.catalogue.'))\n"
+    "kinds.append(resolve('TUBE_NOPE').kind)   # (confirmed against the whole catalogue)\n"
+    "print(json.dumps({'name': fn.name, 'n': len(names()), 'kinds': kinds,\n"
+    "                  'topics': topics}))")
+
+
+def test_catalogue_index_imports_only_the_topics_a_workbook_calls(tmp_path):
+    from tubefuncs.catalogue import CATALOGUE
+
+    first = _catalogue_run(str(tmp_path), LOOKUP)        # no index yet: everything
+    second = _catalogue_run(str(tmp_path), LOOKUP)       # the index written by the first
+    for seen in (first, second):
+        assert seen["name"] == "TUBE_BETA" and seen["n"] == len(CATALOGUE)
+        assert seen["kinds"] == ["catalogue", "catalogue", "excel", "unknown"]
+    assert len(first["topics"]) > 3
+    assert "tubefuncs.catalogue.beam" in second["topics"]
+    assert "tubefuncs.catalogue.gap" not in second["topics"]
+
+
+def test_catalogue_index_that_does_not_match_is_not_used(tmp_path):
+    from tubefuncs.catalogue import CATALOGUE
+
+    _catalogue_run(str(tmp_path), LOOKUP)
+    path = tmp_path / "tubefuncs" / "catalogue-index.json"
+    data = json.loads(path.read_text())
+    # a damaged index: a name dropped, under the right fingerprint
+    dropped = dict(data, names={k: v for k, v in data["names"].items() if k != "TUBE_BETA"})
+    path.write_text(json.dumps(dropped))
+    seen = _catalogue_run(str(tmp_path), LOOKUP)
+    assert seen["name"] == "TUBE_BETA"                   # found all the same
+    assert seen["kinds"][0] == "catalogue"
+    # an index of other sources (fingerprint differs), or not JSON: ignored
+    for text in (json.dumps(dict(data, fingerprint="0" * 64, names={"TUBE_BETA": "gap"})),
+                 "not json", json.dumps({"fingerprint": data["fingerprint"],
+                                         "names": {"TUBE_BETA": "../../evil"}})):
+        path.write_text(text)
+        seen = _catalogue_run(str(tmp_path), LOOKUP)
+        assert seen["name"] == "TUBE_BETA" and seen["n"] == len(CATALOGUE)

@@ -695,7 +695,7 @@ def test_deep_nesting_is_refused_per_cell_and_long_chains_compute(tmp_path, caps
     assert got["A4"] == 1 and got["A6"] == 2700
 
 
-# ------------------------------------------------------------------- arrays and texts built by formulas
+# ------------------------------------------------- arrays and texts built by formulas
 
 @pytest.mark.parametrize("engine", ["fast", "general"])
 def test_standard_function_bombs_are_error_values_before_the_work(tmp_path, capsys, engine):

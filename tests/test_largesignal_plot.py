@@ -30,7 +30,7 @@ def test_unusable_inputs_exit_2(tmp_path, capsys):
     assert cli.main(["plot", "transfer", str(EXAMPLE), *bad, "-o", str(out)]) == 2
     assert "beam-radius" in capsys.readouterr().err
     # a drive so high that electrons stall: the message names the cavity
-    assert cli.main(["plot", "applegate", str(EXAMPLE), *BEAM, "--drive", "100 kW",
+    assert cli.main(["plot", "applegate", str(EXAMPLE), *BEAM, "--drive", "1 MW",
                      "-o", str(out)]) == 2
     assert "cavity" in capsys.readouterr().err
     assert not out.exists()

@@ -298,6 +298,10 @@ def test_example_study_and_command_line(tmp_path):
                           "-o", str(tmp_path / "o2")], capture_output=True, text=True, env=env,
                          timeout=60)
     assert bad.returncode == 2 and "not found" in bad.stderr
+    nobody = subprocess.run([sys.executable, "-m", "tubefuncs", "sweep", str(small), "-o",
+                             str(tmp_path / "o3"), "--scheduler", "tcp://127.0.0.1:1"],
+                            capture_output=True, text=True, env=env, timeout=120)
+    assert nobody.returncode == 2 and "cannot reach the dask scheduler" in nobody.stderr
 
 
 def test_workbook_sheet_study(tmp_path):

@@ -180,7 +180,8 @@ def test_large_signal_sweep_on_worker_processes_equals_serial_and_each_point(clu
     for row in serial.to_pylist():
         try:
             alone = worksheet.evaluate("TUBE_OUTPUT_POWER", [
-                3e9, row["voltage"], 27.0, 4e-3, 6e-3, CAVITIES, row["drive_power"], "kW"]).value
+                3e9, row["voltage"], 27.0, 4e-3, 6e-3, CAVITIES, row["drive_power"],
+                "circuit", "hot", "none", "kW"]).value   # the options come before the unit
         except worksheet.TubeInputError as exc:
             assert row["power"] is None and row["power_error"] == exc.cell_text()
             continue

@@ -12,7 +12,10 @@ __version__ = "0.1.0"
 
 def __getattr__(attr):
     # Python twins are resolved from the catalogue on first use, so that the
-    # catalogue stays the one list of functions.
+    # catalogue stays the one list of functions.  Dunder names and submodules
+    # (``from tubefuncs import errors`` asks here first) never collect it.
+    if attr.startswith("__") or _is_submodule(attr):
+        raise AttributeError(f"module 'tubefuncs' has no attribute {attr!r}")
     from .catalogue import CATALOGUE
 
     for fn in CATALOGUE.values():
@@ -20,6 +23,12 @@ def __getattr__(attr):
             globals()[attr] = fn.func  # found once; later look-ups skip this hook
             return fn.func
     raise AttributeError(f"module 'tubefuncs' has no attribute {attr!r}")
+
+
+def _is_submodule(attr: str) -> bool:
+    import pkgutil
+
+    return any(m.name == attr for m in pkgutil.iter_modules(__path__))
 
 
 def __dir__():

@@ -164,8 +164,7 @@ def _say_name_errors(recalc, out) -> None:
 
 def _cells(recalc) -> str:
     """The count every command reports: each cell a formula fills (array blocks cell by cell)."""
-    n = len(recalc.values)
-    return f"{n} formula cells"
+    return f"{recalc.formula_cells} formula cells"
 
 
 def _say_error_cells(recalc, limit, out) -> None:

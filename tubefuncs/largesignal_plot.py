@@ -106,12 +106,14 @@ def draw_transfer(frequency, beam, cavities, output, title=None, dpi=150, points
 
 def draw_applegate(frequency, beam, cavities, drive, output, title=None, dpi=150, disks=32):
     v, i, b, a = beam
-    acc = model.Accuracy(disks=disks)
-    r = model.solve(frequency, v, i, b, a, cavities, drive, accuracy=acc, record=True)
+    # solved at the worksheet functions' accuracy, so the power in the title is theirs;
+    # about `disks` of the disks are drawn, to keep the picture readable
+    r = model.solve(frequency, v, i, b, a, cavities, drive, record=True)
     if not r.ok:
         raise PlotInputError(results._text(int(r.status), int(r.cavity)) or "outside the model")
     z = r.z
-    phase = np.degrees(np.unwrap(r.phases, axis=0))
+    every = max(1, r.phases.shape[1] // max(1, int(disks)))
+    phase = np.degrees(np.unwrap(r.phases[:, ::every], axis=0))
     phase -= phase[0].mean()
     plt, fig, ax = _figure(8.0, 5.0)
     for n, row in enumerate(cavities, start=1):

@@ -14,7 +14,7 @@ from pathlib import Path
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 BENCHMARKS = ["bench_core", "bench_reduction", "bench_gain", "bench_recalc", "bench_sweep",
-              "bench_calc"]
+              "bench_calc", "bench_vs_calc"]
 
 
 def main() -> int:

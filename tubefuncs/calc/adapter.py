@@ -30,6 +30,7 @@ import numpy as np
 
 from ..catalogue import lookup
 from ..errors import NAME, NUM, VALUE, TubeInputError
+from ..worksheet import evaluate as ws_evaluate
 
 #: Calc's internal codes of the error values we produce (FormulaError in LibreOffice).
 CALC_ERROR_CODES = {NUM: 503, VALUE: 519, NAME: 525}
@@ -68,10 +69,23 @@ def from_calc(value: Any, kind: str = "number") -> Any:
     return value
 
 
+_KINDS: dict = {}
+
+
+def _kinds(fn) -> tuple:
+    kinds = _KINDS.get(fn.name)
+    if kinds is None:
+        kinds = _KINDS[fn.name] = tuple(p.kind for p in fn.worksheet_params)
+    return kinds
+
+
 def _convert_args(fn, args: Sequence[Any]) -> list:
-    params = fn.worksheet_params
-    converted = [from_calc(a, params[i].kind if i < len(params) else "number")
-                 for i, a in enumerate(args)]
+    kinds = _kinds(fn)
+    converted = []
+    for i, a in enumerate(args):
+        if isinstance(a, tuple):
+            a = from_calc(a, kinds[i] if i < len(kinds) else "number")
+        converted.append(a)
     while converted and converted[-1] is None:  # trailing omitted arguments
         converted.pop()
     return converted
@@ -79,12 +93,10 @@ def _convert_args(fn, args: Sequence[Any]) -> list:
 
 def evaluate(name: str, args: Sequence[Any]):
     """The worksheet layer's Evaluation of a Calc call (raises TubeInputError)."""
-    from ..worksheet import evaluate as ws_evaluate
-
     fn = lookup(name)
     if fn is None:
         raise TubeInputError(f"{name}: not in this version of tubefuncs", NAME, function=name)
-    return ws_evaluate(name, _convert_args(fn, args))
+    return ws_evaluate(fn.name, _convert_args(fn, args))
 
 
 def call(name: str, args: Sequence[Any]):

@@ -17,6 +17,8 @@ whole process group at once.  Requests:
     fill a new sheet (KIND ``value``, ``text``, ``formula`` or ``array``,
     ADDRESS of a range for ``array``), recalculate, read back values and
     error values.
+``{"op": "describe", "prefix": "TUBE_"}``
+    names, descriptions and argument help as Calc's Function Wizard shows them.
 ``{"op": "quit"}``
 
 This file imports nothing of tubefuncs: it runs in a Python that may not see it.
@@ -224,6 +226,23 @@ class Office:
         return {"values": out, "formulas": formulas, "seconds": seconds}
 
 
+def describe(ctx, prefix):
+    """What Calc's Function Wizard shows of every function whose name starts with prefix."""
+    fd = ctx.ServiceManager.createInstanceWithContext(
+        "com.sun.star.sheet.FunctionDescriptions", ctx)
+    out = {}
+    for i in range(fd.getCount()):
+        props = {p.Name: p.Value for p in fd.getByIndex(i)}
+        name = props.get("Name", "")
+        if not name.upper().startswith(prefix):
+            continue
+        out[name] = {"description": props.get("Description", ""),
+                     "category": props.get("Category", 0),
+                     "arguments": [[a.Name, a.Description, bool(a.IsOptional)]
+                                   for a in (props.get("Arguments") or ())]}
+    return out
+
+
 def read_cell(cell):
     from com.sun.star.table.CellContentType import EMPTY, TEXT
 
@@ -265,6 +284,9 @@ def main():
                     answer = {"ok": True}
                 elif op == "recalc":
                     answer = {"ok": True, **office.recalc(req["input"], req["output"])}
+                elif op == "describe":
+                    answer = {"ok": True,
+                              "functions": describe(office.ctx, req.get("prefix", "TUBE_"))}
                 elif op == "cells":
                     answer = {"ok": True, **office.cells(req["cells"], req["read"],
                                                          req.get("repeat", 1))}

@@ -23,25 +23,22 @@ CAUTION = ("High voltage, RF power and X-rays: the beam supply and modulator sto
            "and licensed practice.")
 
 BEAM_PARAMS = _gain_catalogue.PARAMS
+OPTIONS = _gain_catalogue.OPTIONS
 DRIVE = Param("drive_power", "Available power of the matched drive generator at the input "
               "port; a range gives the transfer curve.", unit="W", domain=POSITIVE)
-DRIVE_PARAMS = BEAM_PARAMS + (DRIVE,)
+DRIVE_PARAMS = BEAM_PARAMS + (DRIVE,) + OPTIONS
+SAT_PARAMS = BEAM_PARAMS + OPTIONS
 
-# The table and radius checks of TUBE_SMALL_SIGNAL_GAIN (those on its own arguments),
-# and its validity limits (gain.cavity_limits: overlapping gaps, tunnel above cutoff,
-# current above the limiting current, negative net cavity conductance) with the
-# default conventions.
-_BEAM_NAMES = {p.name for p in BEAM_PARAMS}
-_TABLE_CHECKS = tuple(c for c in _gain_catalogue.CHECKS if set(c.args) <= _BEAM_NAMES) + (
-    Check(tuple(p.name for p in BEAM_PARAMS), _gain_catalogue._limits_ok,
-          _gain_catalogue._limits_text),
-)
+# The checks of TUBE_SMALL_SIGNAL_GAIN, with the same options: the table, the radii and
+# the validity limits (gain.cavity_limits: overlapping gaps, a tunnel above the TM01
+# cutoff, a current above the limiting current, a negative net cavity conductance).
+_TABLE_CHECKS = _gain_catalogue.CHECKS
 
 DRIVE_CHECKS = _TABLE_CHECKS + (
     Check(tuple(p.name for p in DRIVE_PARAMS), ls.drive_ok, ls.drive_message),
 )
 SAT_CHECKS = _TABLE_CHECKS + (
-    Check(tuple(p.name for p in BEAM_PARAMS), ls.saturation_ok, ls.saturation_message),
+    Check(tuple(p.name for p in SAT_PARAMS), ls.saturation_ok, ls.saturation_message),
 )
 
 NOTES = (
@@ -53,8 +50,9 @@ NOTES = (
     "scaled to the exact plasma-frequency reduction factor; gridless gap fields whose "
     "coupling at any disk velocity is that of TUBE_GAP_COUPLING; each cavity voltage solved "
     "self-consistently with the current the bunches induce (V = Z (I_g - I)), cavity by "
-    "cavity. Conventions of TUBE_SMALL_SIGNAL_GAIN: circuit R/Q, hot resonant frequency "
-    "(the small-signal beam-loading susceptance is taken out), drive = available power of "
+    "cavity. Conventions and options of TUBE_SMALL_SIGNAL_GAIN (convention of the R/Q "
+    "column, hot or cold resonant frequencies, depression; with hot frequencies the "
+    "disks' small-signal beam-loading susceptance is taken out), drive = available power of "
     "a matched generator, output = power into the output cavity's external load; at low "
     "drive the gain is the small-signal gain. Errors name the cavity: electrons that stall "
     "or turn back, a gap voltage that does not converge, an energy balance missed by more "
@@ -77,7 +75,7 @@ def _drive_fn(name, func, unit, help_text, units=(), refs=(REF_TIEN, REF_WEBBER,
 
 def _sat_fn(name, func, unit, help_text, units=()):
     return Function(
-        name=name, func=func, params=BEAM_PARAMS, result_unit=unit, help=help_text,
+        name=name, func=func, params=SAT_PARAMS, result_unit=unit, help=help_text,
         references=(REF_TIEN, REF_WEBBER, REF_BRANCH), category=CATEGORY, caution=CAUTION,
         checks=SAT_CHECKS, invalid_result=INVALID,
         notes="Saturation = the first maximum of the output power as the drive rises; "
@@ -116,7 +114,8 @@ FUNCTIONS = [
     _sat_fn("TUBE_SATURATED_POWER", ls.saturated_power, "W",
             "Saturated RF output power of a multi-cavity klystron: the first maximum of the "
             "transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN)."
-            " Design estimate.", ("MW", "kW", "dBm", "dBW")),
+            " Needs a small-signal gain of at least 3 dB. Design estimate.",
+            ("MW", "kW", "dBm", "dBW")),
     _sat_fn("TUBE_SATURATION_DRIVE", ls.saturation_drive, "W",
             "Drive power (available from a matched generator) that saturates a multi-cavity "
             "klystron: the drive of the first maximum of the transfer curve.",

@@ -812,11 +812,17 @@ def TUBE_VERSION():
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default W). Optional. E.g. "MW", "kW", "dBm".')
-def TUBE_OUTPUT_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+def TUBE_OUTPUT_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None, unit=None):
     'RF output power of a multi-cavity klystron at the given drive power: large-signal relativistic disk model, same beam arguments and cavity table as TUBE_SMALL_SIGNAL_GAIN. Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_OUTPUT_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+    return _call("TUBE_OUTPUT_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -834,9 +840,15 @@ def TUBE_OUTPUT_POWER(frequency, voltage, current, beam_radius, tunnel_radius, c
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
-def TUBE_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+def TUBE_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None):
     'Overall efficiency of a multi-cavity klystron at the given drive: RF power to the load over beam power V0 I0 (large-signal disk model). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power))
+    return _call("TUBE_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression))
 
 
 @xw.func(category="tubefuncs")
@@ -854,9 +866,15 @@ def TUBE_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cav
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
-def TUBE_LARGE_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+def TUBE_LARGE_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None):
     'Gain in dB, output power over drive power, at the given drive (large-signal disk model); the small-signal gain at low drive, compressed near saturation. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_LARGE_SIGNAL_GAIN", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power))
+    return _call("TUBE_LARGE_SIGNAL_GAIN", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression))
 
 
 @xw.func(category="tubefuncs")
@@ -874,11 +892,17 @@ def TUBE_LARGE_SIGNAL_GAIN(frequency, voltage, current, beam_radius, tunnel_radi
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default deg). Optional. E.g. "deg", "rad".')
-def TUBE_OUTPUT_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+def TUBE_OUTPUT_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None, unit=None):
     'Phase of the output-gap voltage relative to the drive at the given drive, degrees (-180, 180] (large-signal disk model); its change with drive is the AM/PM conversion. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_OUTPUT_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+    return _call("TUBE_OUTPUT_PHASE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -896,11 +920,17 @@ def TUBE_OUTPUT_PHASE(frequency, voltage, current, beam_radius, tunnel_radius, c
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default V). Optional. E.g. "kV", "MV".')
-def TUBE_OUTPUT_GAP_VOLTAGE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+def TUBE_OUTPUT_GAP_VOLTAGE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None, unit=None):
     'Peak RF voltage across the output gap at the given drive (large-signal disk model): what the output cavity and window must hold off. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_OUTPUT_GAP_VOLTAGE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+    return _call("TUBE_OUTPUT_GAP_VOLTAGE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -918,11 +948,17 @@ def TUBE_OUTPUT_GAP_VOLTAGE(frequency, voltage, current, beam_radius, tunnel_rad
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default eV). Optional. E.g. "keV", "MeV".')
-def TUBE_SPENT_BEAM_MIN_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+def TUBE_SPENT_BEAM_MIN_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None, unit=None):
     'Kinetic energy of the slowest electrons leaving the output gap at the given drive (large-signal disk model); limits collector depression. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_SPENT_BEAM_MIN_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+    return _call("TUBE_SPENT_BEAM_MIN_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -940,11 +976,17 @@ def TUBE_SPENT_BEAM_MIN_ENERGY(frequency, voltage, current, beam_radius, tunnel_
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
 @xw.arg("drive_power", ndim=2, err_to_str=True,
         doc='Available power of the matched drive generator at the input port; a range gives the transfer curve. Number in W, or text with a unit. A range gives a range.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default eV). Optional. E.g. "keV", "MeV".')
-def TUBE_SPENT_BEAM_MAX_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit=None):
+def TUBE_SPENT_BEAM_MAX_ENERGY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention=None, resonance=None, depression=None, unit=None):
     "Kinetic energy of the fastest electrons leaving the output gap at the given drive (large-signal disk model): sets the collector's X-ray shielding. Caution: design estimate, not a rating (see TUBE_HELP / docs)."
-    return _call("TUBE_SPENT_BEAM_MAX_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, unit))
+    return _call("TUBE_SPENT_BEAM_MAX_ENERGY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -960,11 +1002,17 @@ def TUBE_SPENT_BEAM_MAX_ENERGY(frequency, voltage, current, beam_radius, tunnel_
         doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("cavities", ndim=2, err_to_str=True,
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default W). Optional. E.g. "MW", "kW", "dBm".')
-def TUBE_SATURATED_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
-    'Saturated RF output power of a multi-cavity klystron: the first maximum of the transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_SATURATED_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+def TUBE_SATURATED_POWER(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
+    'Saturated RF output power of a multi-cavity klystron: the first maximum of the transfer curve (large-signal disk model, cavity table as TUBE_SMALL_SIGNAL_GAIN). Needs a small-signal gain of at least 3 dB. Design estimate.'
+    return _call("TUBE_SATURATED_POWER", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -980,11 +1028,17 @@ def TUBE_SATURATED_POWER(frequency, voltage, current, beam_radius, tunnel_radius
         doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("cavities", ndim=2, err_to_str=True,
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
 @xw.arg("unit", ndim=2, err_to_str=True,
         doc='Unit of the result (default W). Optional. E.g. "W", "kW", "dBm".')
-def TUBE_SATURATION_DRIVE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit=None):
+def TUBE_SATURATION_DRIVE(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None, unit=None):
     'Drive power (available from a matched generator) that saturates a multi-cavity klystron: the drive of the first maximum of the transfer curve. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_SATURATION_DRIVE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, unit))
+    return _call("TUBE_SATURATION_DRIVE", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression, unit))
 
 
 @xw.func(category="tubefuncs")
@@ -1000,9 +1054,15 @@ def TUBE_SATURATION_DRIVE(frequency, voltage, current, beam_radius, tunnel_radiu
         doc='Radius of the drift tube (tunnel). Number in m, or text with a unit. A range gives a range.')
 @xw.arg("cavities", ndim=2, err_to_str=True,
         doc='Range, one row per cavity from input to output, 6 columns: position along the beam (m), resonant frequency (Hz), R/Q (ohm, circuit), Q0, Qext (empty = idle cavity), gap length (m). Used whole, not cell by cell.')
-def TUBE_SATURATED_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+@xw.arg("convention", ndim=2, err_to_str=True,
+        doc='R/Q column convention: "circuit" (V^2/(2 omega W), default) or "accelerator" (V^2/(omega W), as eigenmode solvers often report; "linac" accepted). One of: "circuit", "accelerator", "linac". Optional.')
+@xw.arg("resonance", ndim=2, err_to_str=True,
+        doc='What the frequency column holds: "hot" (beam-loaded, default) or "cold" (cold-test; the beam-loading susceptance is then applied). One of: "hot", "cold". Optional.')
+@xw.arg("depression", ndim=2, err_to_str=True,
+        doc='Beam kinematics from the cathode voltage ("none", default) or from the beam-averaged kinetic voltage after space-charge depression ("mean"). One of: "none", "mean". Optional.')
+def TUBE_SATURATED_EFFICIENCY(frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention=None, resonance=None, depression=None):
     'Efficiency at saturation of a multi-cavity klystron: saturated output power over beam power V0 I0 (large-signal disk model). Design estimate. Caution: design estimate, not a rating (see TUBE_HELP / docs).'
-    return _call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities))
+    return _call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beam_radius, tunnel_radius, cavities, convention, resonance, depression))
 
 
 @xw.func(category="tubefuncs")

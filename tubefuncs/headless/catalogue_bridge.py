@@ -41,11 +41,13 @@ def strip_udf_prefix(name: str) -> str:
 
 
 def catalogue_names() -> frozenset:
+    """Worksheet names of the catalogue (without importing its topic modules when
+    the catalogue's name index is at hand)."""
     try:
-        from ..catalogue import CATALOGUE
+        from ..catalogue import names
+        return names()
     except Exception:  # pragma: no cover - a broken catalogue must not stop Excel functions
         return frozenset()
-    return frozenset(CATALOGUE)
 
 
 def _to_worksheet(value, cell_error):

@@ -68,6 +68,8 @@ TUBE_CAVITIES = (
 TUBE_TABLE_ROW = 9
 _TUBE_ARGS = "rf_frequency, beam_voltage, beam_current, beam_radius, tunnel_radius, cavity_table"
 _AT_SAT = _TUBE_ARGS + ", Station!$B$9"
+#: The options of the gain and large-signal functions, written out before a result unit.
+_OPTS = '"circuit", "hot", "none"'
 
 
 def _tube_sheet(wb) -> None:
@@ -97,13 +99,13 @@ def _tube_sheet(wb) -> None:
         ("Saturated efficiency", f"=TUBE_SATURATED_EFFICIENCY({_TUBE_ARGS})", ""),  # 17
         ("Gain at saturation", f"=TUBE_LARGE_SIGNAL_GAIN({_AT_SAT})", "dB"),       # 18
         ("Small-signal gain", f"=TUBE_SMALL_SIGNAL_GAIN({_TUBE_ARGS})", "dB"),    # 19
-        ("Output-gap voltage", f'=TUBE_OUTPUT_GAP_VOLTAGE({_AT_SAT}, "kV")', "kV"),  # 20
-        ("Slowest spent electrons", f'=TUBE_SPENT_BEAM_MIN_ENERGY({_AT_SAT}, "keV")',
+        ("Output-gap voltage", f'=TUBE_OUTPUT_GAP_VOLTAGE({_AT_SAT}, {_OPTS}, "kV")', "kV"),  # 20
+        ("Slowest spent electrons", f'=TUBE_SPENT_BEAM_MIN_ENERGY({_AT_SAT}, {_OPTS}, "keV")',
          "keV", "limits collector depression"),                                  # 21
-        ("Fastest spent electrons", f'=TUBE_SPENT_BEAM_MAX_ENERGY({_AT_SAT}, "keV")',
+        ("Fastest spent electrons", f'=TUBE_SPENT_BEAM_MAX_ENERGY({_AT_SAT}, {_OPTS}, "keV")',
          "keV", "above e*V0: size the collector X-ray shielding for it"),        # 22
         ("Output power 3 dB below saturation drive",
-         f'=TUBE_OUTPUT_POWER({_TUBE_ARGS}, Station!$B$9/2, "MW")', "MW"),        # 23
+         f'=TUBE_OUTPUT_POWER({_TUBE_ARGS}, Station!$B$9/2, {_OPTS}, "MW")', "MW"),        # 23
         ("AM/PM: phase change over the last 3 dB",
          f"=MOD(TUBE_OUTPUT_PHASE({_AT_SAT})-TUBE_OUTPUT_PHASE({_TUBE_ARGS}, "
          "Station!$B$9/2)+180, 360)-180",
@@ -406,7 +408,7 @@ def _transfer_sheet(wb) -> None:
     args = "transfer_frequency, v_beam, beam_i, beam_radius, tunnel_radius, cavity_table"
     _rows(tr, 3, [
         ("Frequency", "2.998 GHz", ""),                                           # 3
-        ("Saturated power", f'=TUBE_SATURATED_POWER({args}, "kW")', "kW"),         # 4
+        ("Saturated power", f'=TUBE_SATURATED_POWER({args}, {_OPTS}, "kW")', "kW"),         # 4
         ("Saturation drive", f"=TUBE_SATURATION_DRIVE({args})", "W"),              # 5
         ("Efficiency at saturation", f"=TUBE_SATURATED_EFFICIENCY({args})", ""),   # 6
     ])
@@ -418,7 +420,7 @@ def _transfer_sheet(wb) -> None:
         tr.cell(r, 1, round(0.1 * 10 ** (k / 10), 6))  # 0.1 W to 10 W in 1 dB steps
     drives = f"A{first}:A{last}"
     tr.cell(first, 2).value = ArrayFormula(
-        f"B{first}:B{last}", f'=TUBE_OUTPUT_POWER({args}, {drives}, "kW")')
+        f"B{first}:B{last}", f'=TUBE_OUTPUT_POWER({args}, {drives}, {_OPTS}, "kW")')
     tr.cell(first, 3).value = ArrayFormula(
         f"C{first}:C{last}", f"=TUBE_EFFICIENCY({args}, {drives})")
     tr.cell(first, 4).value = ArrayFormula(

@@ -50,7 +50,7 @@ class Recalculation:
     values: dict                     # (sheet_index, row, col) -> value
     messages: dict                   # key -> message of an error value
     name_errors: list                # [(key, message)]: every #NAME? met
-    formula_cells: int
+    formula_cells: int               # cells formulas fill (array blocks cell by cell)
     timings: dict = field(default_factory=dict)
     engine: str = "general"          # which path computed it: "fast" or "general"
     stats: dict = field(default_factory=dict)   # the fast path's counts (groups, cells...)
@@ -326,6 +326,6 @@ def _recalculate_general(path, limits: Limits, progress, evaluator) -> Recalcula
         if value is V.NAME and key not in seen:
             name_errors.append((key, plan.messages.get(key, "#NAME?")))
     name_errors.sort()
-    return Recalculation(book, values, plan.messages, name_errors, len(plan.cells),
+    return Recalculation(book, values, plan.messages, name_errors, len(values),
                          {"read": t1 - t0, "compile": t2 - t1, "evaluate": t3 - t2})
 

@@ -265,7 +265,7 @@ def resolve(written: str) -> Resolution:
     """Resolve a function name as written (``LOG10``, ``_xludf.TUBE_GAMMA``...)."""
     upper = written.upper()
     bare = strip_udf_prefix(upper)
-    if bare in catalogue_names():
+    if bare in catalogue_names() or (bare.startswith("TUBE_") and _in_catalogue(bare)):
         return Resolution("catalogue", bare, bare)
     if bare in REFERENCE_FUNCTIONS:
         return Resolution("reference", bare, bare)
@@ -286,6 +286,14 @@ def resolve(written: str) -> Resolution:
                           f"{bare} is not a tubefuncs function{_nearest(bare)} "
                           f"(see TUBE_HELP or the docs)")
     return Resolution("unknown", None, bare, f"unknown function {bare}")
+
+
+def _in_catalogue(name: str) -> bool:
+    """A name the catalogue's name index does not hold, confirmed against the whole
+    catalogue (an index is only ever a shortcut)."""
+    from ..catalogue import CATALOGUE
+
+    return name in CATALOGUE
 
 
 def _nearest(name: str) -> str:

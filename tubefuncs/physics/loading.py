@@ -71,13 +71,13 @@ from .plasma import reduced_plasma_freq
 TWO_PI = 2.0 * np.pi
 
 # Quadrature of the Hilbert transform: Gauss-Legendre panels of 16 nodes, two on
-# [0, 2 beta_e] (the subtracted singularity at k = beta lies there) and 80 on
-# [2 beta_e, K], K = 64 max(beta_e, 1/d) + 2 beta_e, so that a panel spans at most
-# about 1.6 periods 2 pi/d of the sinc^2 factor for transit angles up to about
+# [0, 2 beta_e] (the subtracted singularity at k = beta lies there, and k0 < beta_e)
+# and 24 on [2 beta_e, K], K = 64 max(beta_e, 1/d) + 2 beta_e, so that a panel spans
+# at most about 4 periods 2 pi/d of the sinc^2 factor for transit angles up to about
 # 10 rad; beyond K the subtracted term is integrated analytically and the rest
 # from the asymptote P ~ 2 R^2/(k d)^2 (mean of sin^2 = 1/2).
 _NODES_PER_PANEL = 16
-_PANELS_FAR = 80
+_PANELS_FAR = 24
 _gl_x, _gl_w = np.polynomial.legendre.leggauss(_NODES_PER_PANEL)
 _UNIT = 0.5 * (_gl_x + 1.0)           # nodes on [0, 1]
 _NEAR_NODES = np.concatenate([_UNIT, 1.0 + _UNIT])          # on [0, 2], in t = k/beta_e
@@ -107,6 +107,15 @@ def _radial_factor(k, k0, b, a):
         j0a = special.j0(y * a)
         oscillating = (special.j0(y * b) ** 2 + special.j1(y * b) ** 2) / (j0a * j0a)
     return np.where(slow, evanescent, oscillating)
+
+
+def _radial_factor_evanescent(k, k0, b, a):
+    """`_radial_factor` for k >= k0 only (the I0 branch)."""
+    with np.errstate(invalid="ignore", over="ignore"):
+        x = np.sqrt((k - k0) * (k + k0))
+        i0b = special.i0e(x * b)
+        i1b = special.i1e(x * b)
+        return (i0b - i1b) * (i0b + i1b) / special.i0e(x * a) ** 2 * np.exp(2.0 * x * (b - a))
 
 
 def coupling_spectrum(wave_number, frequency, gap_length, beam_radius=None, tunnel_radius=None):
@@ -159,13 +168,16 @@ def _hilbert_gridless(betas, beta_e, k0, d, b, a):
         sl = slice(lo, lo + _BLOCK)
         be, kk0, dd, bb, aa = (x[sl, None] for x in (beta_e, k0, d, b, a))
         span = 64.0 * np.maximum(be, 1.0 / dd)
-        k = np.concatenate([be * _NEAR_NODES[None, :],
-                            2.0 * be + span * _FAR_NODES[None, :]], axis=1)
+        k_near = be * _NEAR_NODES[None, :]
+        k_far = 2.0 * be + span * _FAR_NODES[None, :]     # all above k0 (k0 < beta_e)
+        k = np.concatenate([k_near, k_far], axis=1)
         w = np.concatenate([be * _NEAR_WEIGHTS[None, :],
                             span * _FAR_WEIGHTS[None, :]], axis=1)
-        pk = np.sinc(k * dd / TWO_PI) ** 2 * _radial_factor(k, kk0, bb, aa)
+        radial = np.concatenate([_radial_factor(k_near, kk0, bb, aa),
+                                 _radial_factor_evanescent(k_far, kk0, bb, aa)], axis=1)
+        pk = np.sinc(k * dd / TWO_PI) ** 2 * radial
         k_max = (2.0 * be + span)[:, 0]
-        r_far = _radial_factor(k_max[:, None], kk0, bb, aa)[:, 0]
+        r_far = _radial_factor_evanescent(k_max[:, None], kk0, bb, aa)[:, 0]
         for n, beta in enumerate(betas):
             bt = beta[sl, None]
             pb = np.sinc(bt * dd / TWO_PI) ** 2 * _radial_factor(bt, kk0, bb, aa)
@@ -229,9 +241,10 @@ def beam_admittance(frequency, gap_length, voltage, current, beam_radius=None,
     is NaN where f_q >= f, where the fast space-charge wave is faster than
     light, or where the tunnel propagates at f (2 pi f a/c >= 2.405, above the
     TM01 cutoff: the gap field then radiates down the tunnel).  The Hilbert
-    transform is a Gauss-Legendre quadrature on k in [0, 64 beta_e] with the
-    removable singularity subtracted; its error is below 1e-6 of M^2 for
-    transit angles up to about 10 rad.
+    transform is a composite Gauss-Legendre quadrature (416 nodes) with the
+    removable singularity subtracted and the tail beyond the last node
+    integrated from its asymptote; for transit angles up to about 10 rad its
+    error is below about 1e-5 of S (checked against the closed gridded form).
     """
     if (beam_radius is None) != (tunnel_radius is None):
         raise ValueError("give both beam_radius and tunnel_radius (gridless gap) or "

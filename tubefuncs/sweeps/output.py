@@ -71,15 +71,15 @@ class _Counter:
 
 
 def _column_stats(study: Study, result, y: np.ndarray, counter: _Counter) -> dict:
-    y = y[np.isfinite(y)]
+    y = y[np.isfinite(y)]              # (the one copy; the quantiles then work in place)
     stats = {"unit": _unit(study, result), "function": result.function,
              "valid": int(y.size), "errors": counter.errors[result.name],
              "first_errors": counter.messages[result.name]}
     if y.size:
-        qs = np.quantile(y, study.quantiles)
         stats.update(min=float(y.min()), max=float(y.max()), mean=float(y.mean()),
-                     std=float(y.std(ddof=1)) if y.size > 1 else 0.0,
-                     quantiles={f"{q:g}": float(v) for q, v in zip(study.quantiles, qs)})
+                     std=float(y.std(ddof=1)) if y.size > 1 else 0.0)
+        qs = np.quantile(y, study.quantiles, overwrite_input=True)
+        stats.update(quantiles={f"{q:g}": float(v) for q, v in zip(study.quantiles, qs)})
     if result.name in study.limits:
         lo, hi = study.limits[result.name]
         stats["limits"] = {"min": lo, "max": hi}
@@ -178,7 +178,8 @@ def assemble(study: Study, folder: str, xlsx: bool | None = None) -> tuple[dict,
     pf = pq.ParquetFile(files["parquet"])
 
     def column(name):
-        return pf.read(columns=[name]).column(name).to_numpy(zero_copy_only=False).astype(float)
+        col = pf.read(columns=[name]).column(name)
+        return col.to_numpy(zero_copy_only=False).astype(float, copy=False)
 
     summary = _summary(study, counter, column)
     with open(tmp["summary"], "w", encoding="utf-8") as fh:

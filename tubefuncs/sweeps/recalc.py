@@ -85,8 +85,11 @@ class _GroupEvaluator:
 
         scheduler = self.scheduler or ("processes" if slow else "threads")
         tasks = [dask.delayed(_call_chunk, pure=False)(name, p) for _, p in parts]
+        from .runner import _one_thread_per_process
+
         kwargs = {} if scheduler == "sync" else {"num_workers": self.workers}
-        return dask.compute(*tasks, scheduler=scheduler, **kwargs)
+        with _one_thread_per_process(scheduler == "processes"):
+            return dask.compute(*tasks, scheduler=scheduler, **kwargs)
 
 
 @contextlib.contextmanager
@@ -106,13 +109,13 @@ def dask_groups(scheduler: str | None = None, workers: int | None = None,
     if not local:
         from distributed import Client
 
-        from .runner import SweepError
+        from ..headless.problems import WorkbookError
 
         try:
             ev.client = Client(scheduler, timeout=10)
-        except (OSError, TimeoutError) as exc:
-            raise SweepError(f"cannot reach the dask scheduler at {scheduler!r}: "
-                             f"{exc}") from None
+        except (OSError, TimeoutError, ValueError) as exc:   # (recalc exits 2 with this)
+            raise WorkbookError(f"cannot reach the dask scheduler at {scheduler!r}: "
+                                f"{exc}") from None
     previous = program.group_evaluator
     program.group_evaluator = ev
     try:

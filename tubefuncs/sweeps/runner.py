@@ -17,6 +17,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import json
 import os
 import sys
@@ -245,10 +246,41 @@ def _run_local(study, todo, folder, scheduler, workers, bar, tables):
     kwargs = {"scheduler": scheduler}
     if scheduler != "sync":
         kwargs["num_workers"] = workers or os.cpu_count() or 1
-    with Callback(posttask=posttask):
-        out = dask.compute(*tasks, **kwargs)
+    from concurrent.futures.process import BrokenProcessPool
+
+    try:
+        with Callback(posttask=posttask), _one_thread_per_process(scheduler == "processes"):
+            out = dask.compute(*tasks, **kwargs)
+    except BrokenProcessPool as exc:
+        raise SweepError(f"a worker process died ({exc}); the chunks written so far stay, "
+                         f"run again to resume. (From a Python script, start sweeps under "
+                         f"`if __name__ == \"__main__\":`, which worker processes need.)"
+                         ) from None
     if folder is None:
         tables.update(zip(todo, out))
+
+
+#: Thread-pool sizes of numpy's linear algebra in worker processes: one each, as
+#: dask.distributed's nanny sets them, so that N processes use N cores, not N x cores.
+_THREAD_VARIABLES = ("OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS")
+
+
+@contextlib.contextmanager
+def _one_thread_per_process(active: bool):
+    """Worker processes started inside get one linear-algebra thread (unless the user
+    chose a number); this process's own environment is restored afterwards."""
+    saved = {k: os.environ.get(k) for k in _THREAD_VARIABLES}
+    try:
+        if active:
+            for k in _THREAD_VARIABLES:
+                os.environ.setdefault(k, "1")
+        yield
+    finally:
+        for k, v in saved.items():
+            if v is None:
+                os.environ.pop(k, None)
+            else:
+                os.environ[k] = v
 
 
 def _run_distributed(study, todo, folder, scheduler, bar, tables, failed, window):
@@ -261,7 +293,7 @@ def _run_distributed(study, todo, folder, scheduler, bar, tables, failed, window
     if own:
         try:
             client = Client(scheduler, timeout=10)
-        except (OSError, TimeoutError) as exc:
+        except (OSError, TimeoutError, ValueError) as exc:
             raise SweepError(f"cannot reach the dask scheduler at {scheduler!r}: "
                              f"{exc}") from None
     else:

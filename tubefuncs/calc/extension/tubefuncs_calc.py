@@ -251,35 +251,35 @@ class Functions(unohelper.Base, XFunctions, XServiceName, XServiceInfo):
     def TUBE_VERSION(self):
         return self._call("TUBE_VERSION", ())
 
-    def TUBE_OUTPUT_POWER(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit):
-        return self._call("TUBE_OUTPUT_POWER", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit,))
+    def TUBE_OUTPUT_POWER(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit):
+        return self._call("TUBE_OUTPUT_POWER", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit,))
 
-    def TUBE_EFFICIENCY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower):
-        return self._call("TUBE_EFFICIENCY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower,))
+    def TUBE_EFFICIENCY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression):
+        return self._call("TUBE_EFFICIENCY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression,))
 
-    def TUBE_LARGE_SIGNAL_GAIN(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower):
-        return self._call("TUBE_LARGE_SIGNAL_GAIN", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower,))
+    def TUBE_LARGE_SIGNAL_GAIN(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression):
+        return self._call("TUBE_LARGE_SIGNAL_GAIN", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression,))
 
-    def TUBE_OUTPUT_PHASE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit):
-        return self._call("TUBE_OUTPUT_PHASE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit,))
+    def TUBE_OUTPUT_PHASE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit):
+        return self._call("TUBE_OUTPUT_PHASE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit,))
 
-    def TUBE_OUTPUT_GAP_VOLTAGE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit):
-        return self._call("TUBE_OUTPUT_GAP_VOLTAGE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit,))
+    def TUBE_OUTPUT_GAP_VOLTAGE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit):
+        return self._call("TUBE_OUTPUT_GAP_VOLTAGE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit,))
 
-    def TUBE_SPENT_BEAM_MIN_ENERGY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit):
-        return self._call("TUBE_SPENT_BEAM_MIN_ENERGY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit,))
+    def TUBE_SPENT_BEAM_MIN_ENERGY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit):
+        return self._call("TUBE_SPENT_BEAM_MIN_ENERGY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit,))
 
-    def TUBE_SPENT_BEAM_MAX_ENERGY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit):
-        return self._call("TUBE_SPENT_BEAM_MAX_ENERGY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, unit,))
+    def TUBE_SPENT_BEAM_MAX_ENERGY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit):
+        return self._call("TUBE_SPENT_BEAM_MAX_ENERGY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, drivePower, convention, resonance, depression, unit,))
 
-    def TUBE_SATURATED_POWER(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit):
-        return self._call("TUBE_SATURATED_POWER", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit,))
+    def TUBE_SATURATED_POWER(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit):
+        return self._call("TUBE_SATURATED_POWER", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit,))
 
-    def TUBE_SATURATION_DRIVE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit):
-        return self._call("TUBE_SATURATION_DRIVE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, unit,))
+    def TUBE_SATURATION_DRIVE(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit):
+        return self._call("TUBE_SATURATION_DRIVE", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression, unit,))
 
-    def TUBE_SATURATED_EFFICIENCY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities):
-        return self._call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities,))
+    def TUBE_SATURATED_EFFICIENCY(self, frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression):
+        return self._call("TUBE_SATURATED_EFFICIENCY", (frequency, voltage, current, beamRadius, tunnelRadius, cavities, convention, resonance, depression,))
 
     def TUBE_LIMITING_CURRENT(self, voltage, beamRadius, tunnelRadius, unit):
         return self._call("TUBE_LIMITING_CURRENT", (voltage, beamRadius, tunnelRadius, unit,))

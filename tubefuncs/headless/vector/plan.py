@@ -736,7 +736,7 @@ def _recalculate_fast(path, limits: Limits, progress) -> Recalculation:
             if value is V.NAME and key not in seen:
                 name_errors.append((key, plan.messages.get(key, "#NAME?")))
     name_errors.sort()
-    recalc = Recalculation(book, values, plan.messages, name_errors, len(plan.anchors),
+    recalc = Recalculation(book, values, plan.messages, name_errors, len(values),
                            {"read": t1 - t0, "compile": t2 - t1, "evaluate": t3 - t2})
     recalc.engine = "fast"
     recalc.stats = dict(plan.stats)

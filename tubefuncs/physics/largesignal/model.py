@@ -137,23 +137,30 @@ def status_text(status, cavity):
 
 
 def limiting_current(voltage, beam_radius, tunnel_radius):
-    """Space-charge limiting current of a solid beam in a tunnel (confined flow). [A]
+    """Space-charge limiting current of the beam in its tunnel (confined flow). [A]
 
-    I_L = 4 pi eps0 m c^3/e (gamma^(2/3) - 1)^(3/2) / (1 + 2 ln(a/b)) (L. S.
-    Bogdankevich and A. A. Rukhadze, Sov. Phys. Usp. 14, 163, 1971, from memory).
+    The one of `tubefuncs.physics.optics.limiting_current` (the limit TUBE_SMALL_SIGNAL_GAIN
+    checks too), of the form 4 pi eps0 m c^3/e (gamma^(2/3) - 1)^(3/2) / (1 + 2 ln(a/b))
+    (L. S. Bogdankevich and A. A. Rukhadze, Sov. Phys. Usp. 14, 163, 1971, from memory).
     """
-    g = gamma(voltage)
-    geometry = 1.0 + 2.0 * np.log(tunnel_radius / beam_radius)
-    return _ALFVEN * (g ** (2.0 / 3.0) - 1.0) ** 1.5 / geometry
+    from ..optics import limiting_current as shared
+
+    return shared(voltage, beam_radius, tunnel_radius)
 
 
-def _overlap_row(table):
-    """1-based row whose gap overlaps the previous one (0: none)."""
+def _overlap_rows(table, tunnel_radius):
+    """1-based row whose gap overlaps the previous one, per point (0: none).
+
+    The rule of `tubefuncs.physics.gain.cavity_limits`: spacing >= (d_k + d_{k+1})/2 + a
+    (one tunnel radius of fringing field).
+    """
     z, d = table[:, POS], table[:, GAP]
-    for n in range(1, len(z)):
-        if z[n] - z[n - 1] < 0.5 * (d[n] + d[n - 1]):
-            return n + 1
-    return 0
+    a = np.asarray(tunnel_radius, dtype=float)
+    out = np.zeros(a.shape, dtype=int)
+    for n in range(len(z) - 1, 0, -1):
+        bad = z[n] - z[n - 1] < 0.5 * (d[n] + d[n - 1]) + a
+        out[bad] = n + 1
+    return out
 
 
 def _segments(table, half_widths):
@@ -169,7 +176,8 @@ def _segments(table, half_widths):
 
 
 def solve(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power,
-          accuracy=DEFAULT, record=False):
+          convention="circuit", resonance="hot", depression="none", accuracy=DEFAULT,
+          record=False):
     """Solve the large-signal model for broadcast arguments.
 
     Parameters
@@ -179,6 +187,15 @@ def solve(frequency, voltage, current, beam_radius, tunnel_radius, cavities, dri
         tunnel radius [m], available drive power [W]; broadcast together.
     cavities : array_like, shape (n, 6)
         Cavity table of TUBE_SMALL_SIGNAL_GAIN.
+    convention, resonance, depression : str, optional
+        The options of TUBE_SMALL_SIGNAL_GAIN: R/Q column "circuit" (default) or
+        "accelerator"/"linac" (twice circuit); frequency column "hot" (default:
+        beam-loaded; the disk model's small-signal beam-loading susceptance is
+        taken out of each circuit) or "cold" (cold-test: the disks' own beam
+        loading detunes the cavities); beam kinematics from the cathode
+        voltage ("none", default) or from the depressed kinetic voltage
+        ("mean", `tubefuncs.physics.optics.depressed_voltage`).  The beam
+        power and the efficiency always use the cathode voltage.
     accuracy : Accuracy, optional
         Discretisation.
     record : bool, optional
@@ -191,8 +208,11 @@ def solve(frequency, voltage, current, beam_radius, tunnel_radius, cavities, dri
     Raises
     ------
     ValueError
-        The batch is larger than `MAX_POINTS`.
+        The batch is larger than `MAX_POINTS`, or an option is not one of its choices.
     """
+    convention = _gain._option(convention, _gain.CONVENTIONS, "convention")
+    resonance = _gain._option(resonance, _gain.RESONANCES, "resonance")
+    depression = _gain._option(depression, _gain.DEPRESSIONS, "depression")
     args = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in
                                  (frequency, voltage, current, beam_radius, tunnel_radius,
                                   drive_power)))
@@ -202,6 +222,11 @@ def solve(frequency, voltage, current, beam_radius, tunnel_radius, cavities, dri
         raise ValueError(f"at most {MAX_POINTS} operating points per call (got {size})")
     f, v, i, b, a, p = (x.ravel() for x in args)
     table, problem = _gain._as_table(cavities)
+    if table is not None and not problem:
+        from ..cavity import convention_factor
+
+        table = table.copy()
+        table[:, RQ] = table[:, RQ] / convention_factor(convention)  # -> circuit R/Q
     n_cav = 0 if table is None else table.shape[0]
     status = np.zeros(size, dtype=int)
     cav = np.zeros(size, dtype=int)
@@ -221,14 +246,20 @@ def solve(frequency, voltage, current, beam_radius, tunnel_radius, cavities, dri
         status[prop] = PROPAGATING
         lim = good & ~prop & (i >= limiting_current(v, b, a))
         status[lim] = LIMITING
-    row = _overlap_row(table)
-    if row:
-        status[status == OK] = OVERLAP
-        cav[status == OVERLAP] = row
+    over = _overlap_rows(table, a)
+    take = (status == OK) & (over > 0)
+    status[take], cav[take] = OVERLAP, over[take]
+    v_kin = v
+    if depression == "mean":
+        from ..optics import depressed_voltage
+
+        with np.errstate(all="ignore"):
+            v_kin = np.asarray(depressed_voltage(i, v, b, a, "mean"), dtype=float)
+        status[(status == OK) & ~(v_kin > 0)] = BAD_INPUT
     live = np.flatnonzero(status == OK)
     if live.size:
-        _march(result, live, f[live], v[live], i[live], b[live], a[live], p[live], table,
-               accuracy, record)
+        _march(result, live, f[live], v_kin[live], i[live], b[live], a[live], p[live], table,
+               accuracy, record, resonance == "hot")
     return _reshape(result)
 
 
@@ -248,7 +279,7 @@ def _reshape(result):
     return result
 
 
-def _march(result, live, f, v, i, b, a, p, table, acc, record):
+def _march(result, live, f, v, i, b, a, p, table, acc, record, hot=True):
     """Solve the live points in one batch and store them into ``result``."""
     n_pts = live.size
     n_cav = table.shape[0]
@@ -350,7 +381,8 @@ def _march(result, live, f, v, i, b, a, p, table, acc, record):
                           2.0 * i / _PROBE_DISKS, kinetic0)
         probe = _LINEAR_PROBE * v
         i_probe, _ = gap_pass(probe + 0j, entry=fresh_beam)
-        susceptance = np.imag(i_probe / probe)
+        # cold-test frequencies: the beam's own susceptance stays in (it detunes)
+        susceptance = np.imag(i_probe / probe) if hot else np.zeros(n_pts)
         z_cav = circuit.impedance(f, table[n, F0], table[n, RQ], table[n, Q0], table[n, QEXT],
                                   susceptance)
         source = source0 if n == 0 else np.zeros(n_pts)

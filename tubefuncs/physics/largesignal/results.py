@@ -53,19 +53,21 @@ def _table(cavities):
 
 
 def solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                 drive_power, accuracy=model.DEFAULT):
+                 drive_power, convention="circuit", resonance="hot", depression="none",
+                 accuracy=model.DEFAULT):
     """`model.solve` with a small cache of recent batches."""
     table = _table(cavities)
     args = (frequency, voltage, current, beam_radius, tunnel_radius, drive_power)
-    key = _key(args, table, accuracy)
+    options = (convention, resonance, depression)
+    key = _key(args, table, (accuracy,) + options)
     hit = _CACHE.get(key)
     if hit is not None:
         _CACHE.move_to_end(key)
         return hit
     result = model.solve(*args[:5], cavities if table is None else table, drive_power,
-                         accuracy)
+                         *options, accuracy=accuracy)
     _CACHE[key] = result
-    _remember_failures(args, result.status, result.cavity)
+    _remember_failures(args + options, result.status, result.cavity)
     while len(_CACHE) > _CACHE_SIZE:
         _CACHE.popitem(last=False)
     return result
@@ -81,9 +83,11 @@ def _remember_failures(args, status, cavity):
     bad = np.flatnonzero((status.ravel() != model.OK) & (status.ravel() != model.BAD_INPUT))
     if bad.size == 0:
         return
-    flat = [np.broadcast_to(np.asarray(x, dtype=float), status.shape).ravel() for x in args]
+    numeric, options = args[:6], tuple(args[6:])
+    flat = [np.broadcast_to(np.asarray(x, dtype=float), status.shape).ravel() for x in numeric]
     for k in bad[:_FAILED_SIZE]:
-        _FAILED[tuple(float(x[k]) for x in flat)] = (int(status.flat[k]), int(cavity.flat[k]))
+        key = tuple(float(x[k]) for x in flat) + options
+        _FAILED[key] = (int(status.flat[k]), int(cavity.flat[k]))
     while len(_FAILED) > _FAILED_SIZE:
         _FAILED.popitem(last=False)
 
@@ -91,10 +95,10 @@ def _remember_failures(args, status, cavity):
 def _recalled(args):
     """(status, cavity) remembered for single numeric arguments, or None."""
     try:
-        key = tuple(float(np.asarray(x, dtype=float).reshape(())) for x in args)
+        key = tuple(float(np.asarray(x, dtype=float).reshape(())) for x in args[:6])
     except (TypeError, ValueError):
         return None
-    return _FAILED.get(key)
+    return _FAILED.get(key + tuple(args[6:]))
 
 
 def _where_ok(result, value):
@@ -103,7 +107,7 @@ def _where_ok(result, value):
 
 
 def output_power(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                 drive_power):
+                 drive_power, convention="circuit", resonance="hot", depression="none"):
     """RF power into the output load of a multi-cavity klystron (large signal).
 
     Parameters
@@ -125,6 +129,14 @@ def output_power(frequency, voltage, current, beam_radius, tunnel_radius, caviti
     drive_power : numeric
         Available power of the matched drive generator, > 0; an array gives
         the transfer curve. [W]
+    convention : str, optional
+        R/Q column: "circuit" (V^2/(2 omega W), default) or "accelerator"
+        ("linac"), twice the circuit value.
+    resonance : str, optional
+        Frequency column: "hot" (beam-loaded, default) or "cold" (cold-test).
+    depression : str, optional
+        Beam kinematics from the cathode voltage ("none", default) or from
+        the depressed kinetic voltage ("mean").
 
     Returns
     -------
@@ -145,16 +157,19 @@ def output_power(frequency, voltage, current, beam_radius, tunnel_radius, caviti
     See `tubefuncs.physics.largesignal`.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, r.load_power[-1])
 
 
-def efficiency(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+def efficiency(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power,
+               convention="circuit", resonance="hot", depression="none"):
     """Overall efficiency: output power / beam power V0 I0 (large signal).
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -163,17 +178,20 @@ def efficiency(frequency, voltage, current, beam_radius, tunnel_radius, cavities
         P_out / (V0 I0). [1]  NaN where the model does not apply.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, r.load_power[-1] / r.beam_power)
 
 
 def large_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                      drive_power):
+                      drive_power, convention="circuit", resonance="hot",
+                      depression="none"):
     """Gain P_out / P_drive at the given drive, in dB (large signal).
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -183,18 +201,21 @@ def large_signal_gain(frequency, voltage, current, beam_radius, tunnel_radius, c
         at low drive and falls as the tube saturates.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     with np.errstate(all="ignore"):
         return _where_ok(r, 10.0 * np.log10(r.load_power[-1] / r.drive_power))
 
 
 def output_phase(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                 drive_power):
+                 drive_power, convention="circuit", resonance="hot",
+                 depression="none"):
     """Phase of the output-gap voltage relative to the drive (large signal). [deg]
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -205,17 +226,20 @@ def output_phase(frequency, voltage, current, beam_radius, tunnel_radius, caviti
         conversion.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, np.degrees(np.angle(r.gap_voltage[-1])))
 
 
 def output_gap_voltage(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                       drive_power):
+                       drive_power, convention="circuit", resonance="hot",
+                       depression="none"):
     """Peak RF voltage across the output gap (large signal). [V]
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -224,17 +248,20 @@ def output_gap_voltage(frequency, voltage, current, beam_radius, tunnel_radius, 
         |V_N|, the peak gap voltage. [V]
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, np.abs(r.gap_voltage[-1]))
 
 
 def spent_beam_min_energy(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                          drive_power):
+                          drive_power, convention="circuit", resonance="hot",
+                          depression="none"):
     """Kinetic energy of the slowest electrons leaving the output gap. [eV]
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -244,17 +271,20 @@ def spent_beam_min_energy(frequency, voltage, current, beam_radius, tunnel_radiu
         depression.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, r.spent_min)
 
 
 def spent_beam_max_energy(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                          drive_power):
+                          drive_power, convention="circuit", resonance="hot",
+                          depression="none"):
     """Kinetic energy of the fastest electrons leaving the output gap. [eV]
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -264,7 +294,7 @@ def spent_beam_max_energy(frequency, voltage, current, beam_radius, tunnel_radiu
         saturation: the collector and its X-ray shielding must take it.
     """
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return _where_ok(r, r.spent_max)
 
 
@@ -306,7 +336,7 @@ def _first_peak(power):
 
 
 def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-               accuracy=model.DEFAULT):
+               convention="circuit", resonance="hot", depression="none", accuracy=model.DEFAULT):
     """Find the saturation drive and power for broadcast beam arguments.
 
     Returns
@@ -320,7 +350,11 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
     shape = beam[0].shape
     table = _table(cavities)
     with np.errstate(all="ignore"):
-        g_ss = np.asarray(_gain.small_signal_gain(*beam, cavities), dtype=float)
+        try:
+            g_ss = np.asarray(_gain.small_signal_gain(*beam, cavities, convention, resonance,
+                                                      depression), dtype=float)
+        except (ValueError, TypeError):
+            g_ss = np.full(shape, np.nan)
         p_beam = beam[1] * beam[2]
         estimate = 0.5 * p_beam / 10.0 ** (g_ss / 10.0)
     estimate = np.where(np.isfinite(estimate) & (estimate > 0), estimate,
@@ -331,7 +365,8 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
     search = dataclasses.replace(accuracy, tol=max(accuracy.tol, _SEARCH_TOL))
     # 1. coarse grid, 2.5 decades
     drives = estimate[..., None] * 10.0 ** _COARSE
-    coarse = solve_cached(*expand, table, drives, search)
+    options = (convention, resonance, depression)
+    coarse = solve_cached(*expand, table, drives, *options, accuracy=search)
     p = np.where(coarse.ok, coarse.load_power[-1], np.nan)
     k, found = _first_peak(p)
     # 2. fine grid between the coarse neighbours of the peak
@@ -339,7 +374,7 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
     lo = np.take_along_axis(drives, np.maximum(k - 1, 0)[..., None], axis=-1)
     hi = np.take_along_axis(drives, np.minimum(k + 1, n - 1)[..., None], axis=-1)
     fine_drives = lo * (hi / lo) ** np.linspace(0.0, 1.0, _FINE)
-    fine = solve_cached(*expand, table, fine_drives, search)
+    fine = solve_cached(*expand, table, fine_drives, *options, accuracy=search)
     pf = np.where(fine.ok, fine.load_power[-1], np.nan)
     j = np.nanargmax(np.where(np.isfinite(pf), pf, -np.inf), axis=-1)
     j = np.clip(j, 1, _FINE - 2)
@@ -353,8 +388,12 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
         shift = np.where(curv < 0, 0.5 * h * (ys[0] - ys[2]) / curv, 0.0)
     shift = np.clip(np.nan_to_num(shift), -h, h)
     drive = np.exp(xs[1] + shift)
-    final = solve_cached(*beam, table, drive, accuracy)
-    power = np.where(final.ok & found, final.load_power[-1], np.nan)
+    final = solve_cached(*beam, table, drive, *options, accuracy=accuracy)
+    # a chain that does not amplify has no saturation in the sense of the trade: its
+    # transfer curve turns over at a tiny fraction of the beam power and the overdriven
+    # curve beyond is erratic, so a "maximum" found there would be a plausible wrong number
+    amplifies = np.isfinite(g_ss) & (g_ss >= MIN_SATURATION_GAIN_DB)
+    power = np.where(final.ok & found & amplifies, final.load_power[-1], np.nan)
     # report why the curve has no peak: the failure met on the coarse grid
     status = final.status.copy()
     cavity = final.cavity.copy()
@@ -367,6 +406,8 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
         status = np.where(missing & has_bad, bad_status, status)
         cavity = np.where(missing & has_bad, bad_cav, cavity)
         status = np.where(missing & ~has_bad, _NO_PEAK, status)
+    weak = final.ok & np.isfinite(g_ss) & (g_ss < MIN_SATURATION_GAIN_DB)
+    status = np.where(weak, _NO_GAIN, status)
     final.status, final.cavity = status, cavity
     return Saturation(np.where(np.isfinite(power), drive, np.nan).reshape(shape),
                       power.reshape(shape), final)
@@ -374,6 +415,10 @@ def saturation(frequency, voltage, current, beam_radius, tunnel_radius, cavities
 
 #: Status of a transfer curve without a maximum on the searched grid.
 _NO_PEAK = 100
+#: Status of a chain whose small-signal gain is below `MIN_SATURATION_GAIN_DB`.
+_NO_GAIN = 101
+#: Least small-signal gain for which the saturation search runs [dB].
+MIN_SATURATION_GAIN_DB = 3.0
 
 _SAT_CACHE: OrderedDict = OrderedDict()
 _SAT_FAILED: OrderedDict = OrderedDict()
@@ -387,33 +432,38 @@ def _scalar_key(args):
 
 
 def saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                      convention="circuit", resonance="hot", depression="none",
                       accuracy=model.DEFAULT):
     """`saturation` with a small cache."""
     table = _table(cavities)
-    key = _key((frequency, voltage, current, beam_radius, tunnel_radius), table, accuracy)
+    options = (convention, resonance, depression)
+    key = _key((frequency, voltage, current, beam_radius, tunnel_radius), table,
+               (accuracy,) + options)
     hit = _SAT_CACHE.get(key)
     if hit is None:
         hit = saturation(frequency, voltage, current, beam_radius, tunnel_radius,
-                         cavities if table is None else table, accuracy)
+                         cavities if table is None else table, *options, accuracy=accuracy)
         _SAT_CACHE[key] = hit
         st, cv = hit.result.status, hit.result.cavity
         flat = [np.broadcast_to(np.asarray(x, dtype=float), st.shape).ravel()
                 for x in (frequency, voltage, current, beam_radius, tunnel_radius)]
         for k in np.flatnonzero(~np.isfinite(hit.power.ravel()))[:_FAILED_SIZE]:
-            _SAT_FAILED[tuple(float(x[k]) for x in flat)] = (int(st.flat[k]), int(cv.flat[k]))
+            _SAT_FAILED[tuple(float(x[k]) for x in flat) + options] = (int(st.flat[k]),
+                                                                        int(cv.flat[k]))
         while len(_SAT_FAILED) > _FAILED_SIZE:
             _SAT_FAILED.popitem(last=False)
-        while len(_SAT_CACHE) > 8:
-            _SAT_CACHE.popitem(last=False)
     return hit
 
 
-def saturated_power(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def saturated_power(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                    convention="circuit", resonance="hot", depression="none"):
     """Saturated output power: the first maximum of the transfer curve.
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -431,15 +481,18 @@ def saturated_power(frequency, voltage, current, beam_radius, tunnel_radius, cav
     final solve at its vertex.
     """
     return saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius,
-                             cavities).power[()]
+                             cavities, convention, resonance, depression).power[()]
 
 
-def saturation_drive(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def saturation_drive(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                     convention="circuit", resonance="hot", depression="none"):
     """Drive power that saturates the tube (first maximum of the transfer curve). [W]
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -448,15 +501,18 @@ def saturation_drive(frequency, voltage, current, beam_radius, tunnel_radius, ca
         Available drive power at saturation. [W]
     """
     return saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius,
-                             cavities).drive[()]
+                             cavities, convention, resonance, depression).drive[()]
 
 
-def saturated_efficiency(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def saturated_efficiency(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                         convention="circuit", resonance="hot", depression="none"):
     """Efficiency at saturation: saturated power / V0 I0.
 
     Parameters
     ----------
     frequency, voltage, current, beam_radius, tunnel_radius, cavities
+        As in `output_power`.
+    convention, resonance, depression : str, optional
         As in `output_power`.
 
     Returns
@@ -464,7 +520,8 @@ def saturated_efficiency(frequency, voltage, current, beam_radius, tunnel_radius
     numeric
         P_sat / (V0 I0). [1]
     """
-    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities)
+    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                            convention, resonance, depression)
     with np.errstate(all="ignore"):
         return (sat.power / sat.result.beam_power)[()]
 
@@ -474,50 +531,61 @@ def saturated_efficiency(frequency, voltage, current, beam_radius, tunnel_radius
 # ---------------------------------------------------------------------------
 
 def _text(status, cavity):
+    if status == _NO_GAIN:
+        return (f"the small-signal gain is below {MIN_SATURATION_GAIN_DB:g} dB: the chain does "
+                "not amplify, so it has no saturation point")
     if status == _NO_PEAK:
         return ("the output power still rises at 30 times the small-signal saturation "
                 "estimate: no saturation found")
     return model.status_text(status, cavity)
 
 
-def drive_ok(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power):
+def drive_ok(frequency, voltage, current, beam_radius, tunnel_radius, cavities, drive_power,
+             convention="circuit", resonance="hot", depression="none"):
     """Mask: the model describes the point (True also where the inputs are bad:
     the argument checks report those)."""
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, convention, resonance, depression)
     return (r.ok | (r.status == model.BAD_INPUT))[()]
 
 
 def drive_message(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                  drive_power):
+                  drive_power, convention="circuit", resonance="hot", depression="none"):
     """Message of a point the model rejects (single values)."""
+    options = (convention, resonance, depression)
     if np.ndim(cavities) != 2:
         # the worksheet layer passes one element of every range, the table included
-        hit = _recalled((frequency, voltage, current, beam_radius, tunnel_radius, drive_power))
+        hit = _recalled((frequency, voltage, current, beam_radius, tunnel_radius, drive_power)
+                        + options)
         if hit:
             return _text(*hit)
         return "outside the large-signal model"
     r = solve_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
-                     drive_power)
+                     drive_power, *options)
     flat_s, flat_c = r.status.ravel(), r.cavity.ravel()
     k = int(np.argmax(flat_s != model.OK)) if flat_s.size else 0
     return _text(int(flat_s[k]), int(flat_c[k])) or "outside the large-signal model"
 
 
-def saturation_ok(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def saturation_ok(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                  convention="circuit", resonance="hot", depression="none"):
     """Mask: a saturation point was found (or the inputs are bad, reported elsewhere)."""
-    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities)
+    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                            convention, resonance, depression)
     return (np.isfinite(sat.power.reshape(sat.result.status.shape))
             | (sat.result.status == model.BAD_INPUT))[()]
 
 
-def saturation_message(frequency, voltage, current, beam_radius, tunnel_radius, cavities):
+def saturation_message(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                       convention="circuit", resonance="hot", depression="none"):
     """Message of a beam for which no saturation point was found (single values)."""
+    options = (convention, resonance, depression)
     if np.ndim(cavities) != 2:
-        hit = _SAT_FAILED.get(_scalar_key((frequency, voltage, current, beam_radius,
-                                           tunnel_radius)))
+        key = _scalar_key((frequency, voltage, current, beam_radius, tunnel_radius))
+        hit = _SAT_FAILED.get(key + options) if key else None
         return ("no saturation: " + _text(*hit)) if hit else "no saturation point found"
-    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities)
+    sat = saturation_cached(frequency, voltage, current, beam_radius, tunnel_radius, cavities,
+                            *options)
     flat_s, flat_c = sat.result.status.ravel(), sat.result.cavity.ravel()
     k = int(np.argmax(flat_s != model.OK)) if flat_s.size else 0
     text = _text(int(flat_s[k]), int(flat_c[k]))
