@@ -273,7 +273,7 @@ def _plain_kinds(unit_text: str, parsed, unit: str, name: str, example: str) -> 
     names = set(parsed._units)
     angles = names & _ANGLE_UNITS
     ratios = names & _RATIO_UNITS
-    if unit == "rad":
+    if unit in ("rad", "deg", "degree", "radian"):
         if names - _ANGLE_UNITS - {"second", "hertz"} and not names <= _ANGLE_UNITS:
             raise UnitTextError(f"'{unit_text}' is not an angle (e.g. '{example}')")
         return
