@@ -273,11 +273,13 @@ def _plain_kinds(unit_text: str, parsed, unit: str, name: str, example: str) -> 
     names = set(parsed._units)
     angles = names & _ANGLE_UNITS
     ratios = names & _RATIO_UNITS
-    if unit in ("rad", "deg", "degree", "radian"):
-        if names - _ANGLE_UNITS - {"second", "hertz"} and not names <= _ANGLE_UNITS:
-            raise UnitTextError(f"'{unit_text}' is not an angle (e.g. '{example}')")
-        return
-    if angles:
+    want = _angle_power(ureg.parse_units(unit)) if unit else 0.0
+    if _angle_power(parsed) != want:
+        if want:
+            raise UnitTextError(f"'{unit_text}' is not a unit of {name} (e.g. '{example}')")
+        raise UnitTextError(f"'{unit_text}' holds an angle, which is not a {name} "
+                            f"(e.g. '{example}')")
+    if angles and not want:
         raise UnitTextError(f"'{unit_text}' holds an angle, which is not a {name} "
                             f"(e.g. '{example}')")
     if ratios and (len(names) > 1 or unit != ""):
