@@ -266,10 +266,10 @@ def _result_columns(cols, name, y, errors, n):
     cols[f"{name}_error"] = pa.array(text, type=pa.string())
 
 
-def run_chunk(study: Study, k: int) -> pa.Table:
-    """Rows of chunk k: point number, inputs (SI), each result and its error text."""
+def _input_columns(study: Study, k: int):
+    """Points of chunk k, their input values, and the table columns of the inputs
+    (point number, then each variable in SI; a table column per cavity row)."""
     a, b = study.chunk_bounds(k)
-    n = b - a
     values = inputs(study, a, b)
     cols = {"point": pa.array(np.arange(a, b, dtype=np.int64))}
     for var in study.variables:
@@ -279,6 +279,12 @@ def run_chunk(study: Study, k: int) -> pa.Table:
                 cols[f"{var.param}[{r + 1}].{_col(var.col)}"] = pa.array(x[:, r])
         else:
             cols[var.key] = pa.array(x)
+    return b - a, values, cols
+
+
+def run_chunk(study: Study, k: int) -> pa.Table:
+    """Rows of chunk k: point number, inputs (SI), each result and its error text."""
+    n, values, cols = _input_columns(study, k)
     for result in study.results:
         y, err = evaluate_result(study, result, values, n)
         _result_columns(cols, result.name, y, err, n)
@@ -288,17 +294,7 @@ def run_chunk(study: Study, k: int) -> pa.Table:
 def failed_chunk(study: Study, k: int, message: str) -> pa.Table:
     """Rows of a chunk whose task itself failed: the inputs, and the message in every
     result's error column (no row is lost)."""
-    a, b = study.chunk_bounds(k)
-    n = b - a
-    values = inputs(study, a, b)
-    cols = {"point": pa.array(np.arange(a, b, dtype=np.int64))}
-    for var in study.variables:
-        x = values[var.key]
-        if x.ndim == 2:
-            for r in range(x.shape[1]):
-                cols[f"{var.param}[{r + 1}].{_col(var.col)}"] = pa.array(x[:, r])
-        else:
-            cols[var.key] = pa.array(x)
+    n, _, cols = _input_columns(study, k)
     text = f"#VALUE! sweep: {message}"[:255]
     for result in study.results:
         cols[result.name] = pa.nulls(n, pa.float64())
