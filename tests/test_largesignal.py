@@ -365,3 +365,14 @@ def test_a_chain_that_does_not_amplify_has_no_saturation_point():
     out = evaluate("TUBE_SATURATED_POWER", [[[3e9], [3.75e9]]] + beam)
     assert np.all(np.isnan(out.value))
     assert "does not amplify" in out.errors[(0, 0)].message
+
+
+def test_unit_in_the_place_design_md_gives_it_is_read_as_the_unit():
+    # design.md: TUBE_OUTPUT_POWER(..., drive_power, [unit]) and
+    # TUBE_SATURATED_POWER(..., cavities, [unit]); the options came later, before the unit
+    table = demo_table(2)
+    args = _ws_args(table)
+    short = evaluate("TUBE_OUTPUT_POWER", args + [1.0, "kW"]).value
+    full = evaluate("TUBE_OUTPUT_POWER", args + [1.0, "circuit", "hot", "none", "kW"]).value
+    watts = evaluate("TUBE_OUTPUT_POWER", args + [1.0]).value
+    assert short == full and np.isclose(short, watts / 1e3, rtol=1e-12)

@@ -70,14 +70,21 @@ def _drive_fn(name, func, unit, help_text, units=(), refs=(REF_TIEN, REF_WEBBER,
     return Function(
         name=name, func=func, params=DRIVE_PARAMS, result_unit=unit, help=help_text,
         references=refs, category=CATEGORY, caution=CAUTION, checks=DRIVE_CHECKS,
-        invalid_result=INVALID, notes=NOTES, result_units=units)
+        invalid_result=INVALID, notes=NOTES, result_units=units,
+        extra=_unit_after(BEAM_PARAMS + (DRIVE,), unit))
+
+
+def _unit_after(leading, unit):
+    """A unit written right after the leading arguments (the order design.md gives,
+    before the options existed) is still read as the unit (see worksheet.py)."""
+    return {"former_unit_slot": len(leading)} if unit else {}
 
 
 def _sat_fn(name, func, unit, help_text, units=()):
     return Function(
         name=name, func=func, params=SAT_PARAMS, result_unit=unit, help=help_text,
         references=(REF_TIEN, REF_WEBBER, REF_BRANCH), category=CATEGORY, caution=CAUTION,
-        checks=SAT_CHECKS, invalid_result=INVALID,
+        checks=SAT_CHECKS, invalid_result=INVALID, extra=_unit_after(BEAM_PARAMS, unit),
         notes="Saturation = the first maximum of the output power as the drive rises; "
               "searched in batches (11 drives over 2.5 decades around the small-signal "
               "estimate, 7 between the neighbours of the peak, a parabola in log drive). "
